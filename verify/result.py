@@ -1,0 +1,203 @@
+"""The one result type, shared by engines, the Python API, reports and the command line.
+
+Verdicts, strongest first, and what each one covers:
+
+============  =====================================================================  ====
+verdict       meaning                                                                exit
+============  =====================================================================  ====
+proven        z3 showed no input makes any output differ from the spec (unsat)       0
+exhaustive    every combination of every input bit was simulated and matched         0
+tested        N vectors matched; a sample, never a proof                             0 (3 with require=complete)
+fail          a counterexample: an input where some output differs (re-simulated)    1
+inconclusive  no engine established anything (timeout, solver unknown, too large)    3
+error         bad input: nothing was checked                                         2
+============  =====================================================================  ====
+
+Engine statuses: ``pass`` (the engine established what its evidence says), ``fail`` (it found a
+counterexample), ``inconclusive`` (it stopped without an answer: timeout, unknown, limit) and
+``skipped`` (not run, with the reason in its evidence).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from enum import Enum
+from typing import Any
+
+
+class Verdict(str, Enum):
+    PROVEN = "proven"
+    EXHAUSTIVE = "exhaustive"
+    TESTED = "tested"
+    FAIL = "fail"
+    INCONCLUSIVE = "inconclusive"
+    ERROR = "error"
+
+    def __str__(self) -> str:  # pragma: no cover - trivial
+        return self.value
+
+
+COMPLETE = (Verdict.PROVEN, Verdict.EXHAUSTIVE)
+
+#: the cautions every verdict carries
+SCOPE_NOTE = (
+    "A verdict covers the modeled logic at this width only: not timing, glitches, "
+    "X-propagation or physical effects. Sign-off stays with your own flow."
+)
+
+
+class Require(str, Enum):
+    """How strong a verdict must be to count as meeting the spec."""
+
+    TESTED = "tested"  # proven, exhaustive or tested
+    COMPLETE = "complete"  # proven or exhaustive only
+
+
+@dataclass(frozen=True)
+class Counterexample:
+    """An input vector where the design's outputs differ from the spec."""
+
+    inputs: dict[str, int]
+    expected: dict[str, int]
+    actual: dict[str, int]
+
+    def wrong_bits(self) -> dict[str, list[int]]:
+        """output port -> bit indices that differ, LSB first; ports that agree are left out."""
+        out = {}
+        for port, want in self.expected.items():
+            diff = want ^ self.actual.get(port, 0)
+            bits = [i for i in range(diff.bit_length()) if diff >> i & 1]
+            if bits:
+                out[port] = bits
+        return out
+
+    def to_json(self) -> dict[str, Any]:
+        return {"inputs": dict(self.inputs), "expected": dict(self.expected),
+                "actual": dict(self.actual), "wrong_bits": self.wrong_bits()}
+
+    @classmethod
+    def from_json(cls, data: dict[str, Any]) -> "Counterexample":
+        return cls(dict(data["inputs"]), dict(data["expected"]), dict(data["actual"]))
+
+
+@dataclass(frozen=True)
+class EngineOutcome:
+    """What one engine established, in one sentence (``evidence``), with its figures."""
+
+    engine: str  # exhaustive | smt | random
+    status: str  # pass | fail | inconclusive | skipped
+    seconds: float
+    evidence: str
+    vectors: int | None = None  # how many input vectors were simulated, where that applies
+    counterexample: Counterexample | None = None
+    details: dict[str, Any] = field(default_factory=dict)
+
+    def to_json(self) -> dict[str, Any]:
+        out: dict[str, Any] = {"engine": self.engine, "status": self.status,
+                               "seconds": round(self.seconds, 6), "evidence": self.evidence}
+        if self.vectors is not None:
+            out["vectors"] = self.vectors
+        if self.counterexample is not None:
+            out["counterexample"] = self.counterexample.to_json()
+        out.update(self.details)
+        return out
+
+
+@dataclass
+class CheckResult:
+    """Everything one check established about one design against one spec."""
+
+    design: str  # design name
+    design_hash: str
+    ports: dict[str, dict[str, int]]  # {"inputs": {name: width}, "outputs": {...}}
+    gate_count: int
+    spec: str
+    spec_inferred: bool
+    engines: list[EngineOutcome]
+    verdict: Verdict
+    require: Require = Require.TESTED
+    counterexample: Counterexample | None = None
+    seconds: float = 0.0
+    origin: str | None = None
+    #: more findings attached by later stages (diagnosis: suspects, vcd; shards; parameters)
+    extras: dict[str, Any] = field(default_factory=dict)
+
+    @property
+    def ok(self) -> bool:
+        return self.exit_code == 0
+
+    @property
+    def exit_code(self) -> int:
+        return exit_code(self.verdict, self.require)
+
+    @property
+    def coverage(self) -> str:
+        """One sentence: exactly what the verdict covers."""
+        bits = sum(self.ports["inputs"].values())
+        v = self.verdict
+        if v is Verdict.PROVEN:
+            return (f"proven by z3 for all 2^{bits} values of the {bits} input bits: every output "
+                    f"equals the spec")
+        if v is Verdict.EXHAUSTIVE:
+            return (f"all 2^{bits} = {2 ** bits:,} input combinations simulated; every output "
+                    f"equals the spec")
+        if v is Verdict.TESTED:
+            n = sum(e.vectors or 0 for e in self.engines if e.status == "pass")
+            return (f"tested {n:,} input vectors, all matched; this is a sample of the 2^{bits} "
+                    f"inputs, not a proof")
+        if v is Verdict.FAIL:
+            return "counterexample found: the design does not meet the spec"
+        if v is Verdict.INCONCLUSIVE:
+            return "no engine established the spec (see each engine's evidence)"
+        return "nothing was checked"
+
+    def to_json(self) -> dict[str, Any]:
+        out: dict[str, Any] = {
+            "ok": self.ok,
+            "verdict": self.verdict.value,
+            "exit_code": self.exit_code,
+            "require": self.require.value,
+            "coverage": self.coverage,
+            "design": {"name": self.design, "hash": self.design_hash, "origin": self.origin,
+                       "gates": self.gate_count, **self.ports},
+            "spec": self.spec,
+            "spec_inferred": self.spec_inferred,
+            "engines": [e.to_json() for e in self.engines],
+            "seconds": round(self.seconds, 6),
+            "note": SCOPE_NOTE,
+        }
+        if self.counterexample is not None:
+            out["counterexample"] = self.counterexample.to_json()
+        out.update(self.extras)
+        return out
+
+
+def exit_code(verdict: Verdict, require: Require = Require.TESTED) -> int:
+    if verdict in COMPLETE:
+        return 0
+    if verdict is Verdict.TESTED:
+        return 0 if require is Require.TESTED else 3
+    if verdict is Verdict.FAIL:
+        return 1
+    if verdict is Verdict.ERROR:
+        return 2
+    return 3
+
+
+def combine(outcomes: list[EngineOutcome]) -> tuple[Verdict, Counterexample | None]:
+    """The verdict a list of engine outcomes supports: a failure beats all, a proof beats a sample.
+
+    An engine that was asked to establish more than a sample and could not (for example smt timing
+    out after random testing passed) leaves the verdict inconclusive: see ``check.check``.
+    """
+    for e in outcomes:
+        if e.status == "fail":
+            return Verdict.FAIL, e.counterexample
+    passed = {e.engine for e in outcomes if e.status == "pass"}
+    if "smt" in passed:
+        return Verdict.PROVEN, None
+    if "exhaustive" in passed:
+        return Verdict.EXHAUSTIVE, None
+    if "random" in passed:
+        return Verdict.TESTED, None
+    return Verdict.INCONCLUSIVE, None
