@@ -1,0 +1,115 @@
+"""The Python API: check a design against a spec with one or more engines.
+
+::
+
+    import verify
+    result = verify.check(verify.load("designs/larkspur_add8_ripple.json"),
+                          spec="{cout, sum} = a + b + cin")
+    assert result.ok, result.coverage
+
+``engine="auto"`` (the default) runs random vectors first, to find a bug fast, then the exhaustive
+engine when the input bits fit its limit, else z3 within the time limit. If that last engine gives
+no answer, the verdict is inconclusive: passing random vectors never stands in for a proof.
+"""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+from typing import Callable
+
+from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT, Options
+from verify.errors import InputError
+from verify.netlist import Netlist
+from verify.result import CheckResult, EngineOutcome, Require, Verdict, combine
+
+ENGINE_NAMES = ("auto", "exhaustive", "smt", "random")
+#: how many random vectors auto runs before the complete engine
+AUTO_RANDOM_VECTORS = 20_000
+
+
+def _engine(name: str):
+    from verify.engines import exhaustive, randomized, smt
+    return {"exhaustive": exhaustive.run, "smt": smt.run, "random": randomized.run}[name]
+
+
+def resolve_spec(design: Netlist, spec=None):
+    """A Spec object from text, an existing Spec, or None (inferred from the ports)."""
+    from verify import spec as specmod
+    if spec is None:
+        return specmod.infer(design)
+    if isinstance(spec, str):
+        if not spec.strip():
+            raise InputError("the spec is empty", "spec")
+        return specmod.parse(spec, design)
+    return spec
+
+
+def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed: int = 1,
+          vectors: int | None = None, timeout: float = DEFAULT_TIMEOUT,
+          require: str | Require = Require.TESTED,
+          exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS, shrink: bool = True,
+          shard: tuple[int, int] | None = None,
+          progress: Callable[[str, int, int], None] | None = None) -> CheckResult:
+    """Establish what can be established about ``design`` against ``spec``.
+
+    ``spec`` is equation text, a ``verify.spec.Spec`` or None (inferred from port names).
+    ``require="complete"`` makes a result that is only ``tested`` fail (exit code 3).
+    ``shard=(k, n)`` limits the exhaustive engine to the k-th of n disjoint parts.
+    Raises InputError for bad input; never returns a passing verdict no engine established.
+    """
+    started = time.perf_counter()
+    if not isinstance(design, Netlist):
+        from verify.formats import load
+        design = load(design)
+    if engine not in ENGINE_NAMES:
+        raise InputError(f"unknown engine '{engine}' (choose from {', '.join(ENGINE_NAMES)})")
+    require = Require(require) if not isinstance(require, Require) else require
+    if shard is not None:
+        k, n = shard
+        if engine != "exhaustive":
+            raise InputError("--shard works with --engine exhaustive only")
+        if not (isinstance(k, int) and isinstance(n, int) and 1 <= k <= n):
+            raise InputError(f"shard {k}/{n}: give K/N with 1 <= K <= N")
+    if vectors is not None and vectors < 1:
+        raise InputError(f"--vectors must be at least 1, got {vectors}")
+    if timeout <= 0:
+        raise InputError(f"--timeout must be positive, got {timeout:g}")
+    the_spec = resolve_spec(design, spec)
+
+    def options(name: str, **over) -> Options:
+        cb = (lambda done, total: progress(name, done, total)) if progress else None
+        base = dict(seed=seed, vectors=vectors, timeout=timeout, exhaustive_limit=exhaustive_limit,
+                    shard=shard, progress=cb)
+        base.update(over)
+        return Options(**base)
+
+    outcomes: list[EngineOutcome] = []
+    if engine == "auto":
+        first = min(vectors, AUTO_RANDOM_VECTORS) if vectors else AUTO_RANDOM_VECTORS
+        outcomes.append(_engine("random")(design, the_spec, options("random", vectors=first)))
+        if outcomes[-1].status != "fail":
+            final = "exhaustive" if design.input_width <= exhaustive_limit else "smt"
+            outcomes.append(_engine(final)(design, the_spec, options(final)))
+    else:
+        outcomes.append(_engine(engine)(design, the_spec, options(engine)))
+
+    verdict, cex = combine(outcomes)
+    if engine == "auto" and verdict is Verdict.TESTED:
+        verdict = Verdict.INCONCLUSIVE  # the complete engine was asked and gave no answer
+    extras: dict = {}
+    if cex is not None and shrink:
+        from verify.shrink import shrink as shrink_cex
+        small = shrink_cex(design, the_spec, cex)
+        if small != cex:
+            extras["found_counterexample"] = cex.to_json()
+        cex = small
+    if shard is not None and outcomes[0].details.get("shard"):
+        extras["shard"] = outcomes[0].details["shard"]
+    return CheckResult(
+        design=design.name, design_hash=design.content_hash(),
+        ports={"inputs": {p.name: p.width for p in design.inputs},
+               "outputs": {p.name: p.width for p in design.outputs}},
+        gate_count=len(design.gates), spec=the_spec.text, spec_inferred=the_spec.inferred,
+        engines=outcomes, verdict=verdict, require=require, counterexample=cex,
+        seconds=time.perf_counter() - started, origin=design.origin, extras=extras)

@@ -1,0 +1,261 @@
+"""The command line: a thin click layer over the Python API (verify.check, verify.load, ...).
+
+Exit codes: 0 meets the spec, 1 counterexample found, 2 bad input or usage, 3 inconclusive (or only
+tested while --require complete asked for proven or exhaustive).
+"""
+
+from __future__ import annotations
+
+import itertools
+import json
+import sys
+from pathlib import Path
+
+import click
+
+from verify import __version__
+from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT
+from verify.errors import InputError
+from verify.formats import VERILOG_SUFFIXES
+from verify.result import Verdict
+
+ENGINES = ("auto", "exhaustive", "smt", "random")
+
+
+@click.group(context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
+@click.version_option(__version__, prog_name="verify")
+def cli() -> None:
+    """Prove, exhaustively check and randomly test adder circuits against integer addition."""
+
+
+def main(argv: list[str] | None = None) -> None:
+    """Console entry point: every bad input becomes one line on stderr and exit code 2."""
+    try:
+        code = cli.main(args=argv, prog_name="verify", standalone_mode=False)
+    except click.exceptions.Exit as e:
+        sys.exit(e.exit_code)
+    except click.exceptions.Abort:
+        click.echo("error: interrupted", err=True)
+        sys.exit(130)
+    except click.exceptions.UsageError as e:
+        hint = f" (see 'verify {e.ctx.info_name} --help')" if e.ctx and e.ctx.parent else " (see 'verify --help')"
+        click.echo(f"error: {e.format_message()}{hint}", err=True)
+        sys.exit(2)
+    except click.exceptions.ClickException as e:
+        click.echo(f"error: {e.format_message()}", err=True)
+        sys.exit(2)
+    except InputError as e:
+        click.echo(f"error: {e}", err=True)
+        sys.exit(2)
+    sys.exit(code or 0)
+
+
+# ---- shared option parsing ------------------------------------------------------------------
+
+def parse_params(values: tuple[str, ...]) -> dict[str, list[int]]:
+    """--param NAME=VALUE[,VALUE...] -> {NAME: [values]} (several values make a sweep)."""
+    out: dict[str, list[int]] = {}
+    for item in values:
+        name, eq, rest = item.partition("=")
+        if not eq or not name.strip() or not rest.strip():
+            raise InputError(f"--param '{item}': write NAME=VALUE or NAME=V1,V2,...")
+        vals = []
+        for v in rest.split(","):
+            try:
+                vals.append(int(v.strip(), 0))
+            except ValueError:
+                raise InputError(f"--param {name}: '{v}' is not a whole number") from None
+        out[name.strip()] = vals
+    return out
+
+
+def parse_defines(values: tuple[str, ...]) -> dict[str, str | None]:
+    out: dict[str, str | None] = {}
+    for item in values:
+        name, eq, val = item.partition("=")
+        if not name:
+            raise InputError(f"-D '{item}': write NAME or NAME=VALUE")
+        out[name] = val if eq else None
+    return out
+
+
+def parse_shard(text: str | None) -> tuple[int, int] | None:
+    if text is None:
+        return None
+    k, slash, n = text.partition("/")
+    try:
+        shard = (int(k), int(n))
+    except ValueError:
+        raise InputError(f"--shard '{text}': write K/N, e.g. 3/8") from None
+    if not slash or not 1 <= shard[0] <= shard[1]:
+        raise InputError(f"--shard '{text}': need 1 <= K <= N")
+    return shard
+
+
+def sweep(params: dict[str, list[int]]) -> list[dict[str, int]]:
+    names = list(params)
+    return [dict(zip(names, combo)) for combo in itertools.product(*(params[n] for n in names))] or [{}]
+
+
+def design_units(paths: tuple[str, ...]) -> list[list[Path]]:
+    """What to check: one design from the files given, or one design per file in a folder."""
+    given = [Path(p) for p in paths]
+    if len(given) == 1 and given[0].is_dir():
+        files = sorted(p for p in given[0].rglob("*")
+                       if p.is_file() and p.suffix in (".json", *VERILOG_SUFFIXES)
+                       and not any(part.startswith(".") for part in p.parts))
+        if not files:
+            raise InputError("no .json, .v or .sv design files in this folder", str(given[0]))
+        return [[f] for f in files]
+    for p in given:
+        if p.is_dir():
+            raise InputError("give one folder on its own, or design files", str(p))
+    return [given]
+
+
+# ---- verify check ---------------------------------------------------------------------------
+
+@cli.command("check")
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@click.option("--spec", help='What the outputs must equal, e.g. "{cout, sum} = a + b + cin". '
+              "Default: inferred from port names and widths.")
+@click.option("--engine", type=click.Choice(ENGINES), default="auto", show_default=True,
+              help="auto: random vectors first, then exhaustive if the inputs fit, else smt.")
+@click.option("--seed", type=int, default=1, show_default=True, help="Seed of the random engine.")
+@click.option("--vectors", type=int, help="Vectors for the random engine (default 200,000; "
+              "auto runs 20,000 first).")
+@click.option("--timeout", type=float, default=DEFAULT_TIMEOUT, show_default=True,
+              help="Seconds an engine may take; past it the outcome is inconclusive.")
+@click.option("--require", type=click.Choice(["tested", "complete"]), default="tested",
+              show_default=True, help="complete: only proven or exhaustive count as meeting the spec.")
+@click.option("--exhaustive-limit", type=click.IntRange(1, 40), default=DEFAULT_EXHAUSTIVE_BITS,
+              show_default=True, metavar="BITS", help="Largest input width the exhaustive engine takes.")
+@click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
+@click.option("--top", help="Verilog: the top module (found automatically if there is one).")
+@click.option("--param", "params", multiple=True, metavar="NAME=V[,V...]",
+              help="Verilog: override a parameter; several values check each in turn.")
+@click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder.")
+@click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define.")
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
+@click.option("--log-dir", default="logs", show_default=True, help="Where runs.jsonl is appended.")
+@click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl.")
+def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
+              params, include_dirs, defines, as_json, log_dir, no_log):
+    """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
+    from verify import check as api
+    from verify import logbook, reports
+    from verify.formats import load
+
+    try:
+        shard_t = parse_shard(shard)
+        sweep_params = parse_params(params)
+        define_map = parse_defines(defines)
+        units = design_units(paths)
+    except InputError as e:
+        return _input_error(e, as_json)
+    runs = []  # (label, params, result or error)
+    for files in units:
+        for point in sweep(sweep_params):
+            label = " ".join(str(f) for f in files)
+            try:
+                design = load(files, top=top, params=point, include_dirs=include_dirs,
+                              defines=define_map)
+                result = api.check(design, spec, engine=engine, seed=seed, vectors=vectors,
+                                   timeout=timeout, require=require,
+                                   exhaustive_limit=exhaustive_limit, shard=shard_t,
+                                   progress=_progress(as_json))
+            except InputError as e:
+                if len(units) == 1 and len(sweep(sweep_params)) == 1:
+                    return _input_error(e, as_json)
+                runs.append((label, point, e))
+                continue
+            if not no_log:
+                try:
+                    logbook.record(result, log_dir, files, point)
+                except OSError as e:
+                    click.echo(f"warning: could not write the run log in {log_dir}: {e}", err=True)
+            runs.append((label, point, result))
+    return _report(runs, as_json, several=len(runs) > 1)
+
+
+def _progress(as_json: bool):
+    if as_json or not sys.stderr.isatty():
+        return None
+    state = {"last": None}
+
+    def show(engine: str, done: int, total: int) -> None:
+        pct = int(100 * done / total) if total else 100
+        if state["last"] != (engine, pct):
+            state["last"] = (engine, pct)
+            click.echo(f"\r  {engine} {pct:3d}% ({done:,} of {total:,})", err=True, nl=False)
+            if done >= total:
+                click.echo("\r" + " " * 60 + "\r", err=True, nl=False)
+    return show
+
+
+def _input_error(e: InputError, as_json: bool) -> int:
+    if as_json:
+        click.echo(json.dumps({"ok": False, "verdict": "error", "error": str(e)}))
+    click.echo(f"error: {e}", err=True)
+    return 2
+
+
+def _report(runs, as_json: bool, several: bool) -> int:
+    from verify import reports
+
+    codes = []
+    if as_json:
+        items = []
+        for label, point, r in runs:
+            if isinstance(r, InputError):
+                items.append({"ok": False, "verdict": "error", "error": str(r), "files": label,
+                              "params": point})
+                codes.append(2)
+            else:
+                items.append(reports.render_json(r, params=point or None))
+                codes.append(r.exit_code)
+        click.echo(reports.dumps(items if several else items[0]))
+        return worst(codes)
+    for n, (label, point, r) in enumerate(runs):
+        if n:
+            click.echo("\n" + "-" * 78)
+        if isinstance(r, InputError):
+            click.echo(f"error: {r}")
+            codes.append(2)
+            continue
+        click.echo(reports.render_text(r, params=point or None))
+        codes.append(r.exit_code)
+    if several:
+        click.echo("\n" + "=" * 78)
+        click.echo(summary_table(runs))
+    return worst(codes)
+
+
+def summary_table(runs) -> str:
+    lines = ["summary:"]
+    for label, point, r in runs:
+        p = " ".join(f"{k}={v}" for k, v in point.items())
+        name = f"{label} {p}".strip()
+        if isinstance(r, InputError):
+            lines.append(f"  {'ERROR':<13} {name}: {r.message}")
+        else:
+            engines = "+".join(e.engine for e in r.engines if e.status != "skipped")
+            lines.append(f"  {r.verdict.value.upper():<13} {name}  ({engines}, {r.seconds:.2f} s)")
+    counts: dict[str, int] = {}
+    for _, _, r in runs:
+        v = "error" if isinstance(r, InputError) else r.verdict.value
+        counts[v] = counts.get(v, 0) + 1
+    lines.append("  " + ", ".join(f"{n} {v}" for v, n in counts.items()))
+    return "\n".join(lines)
+
+
+def worst(codes: list[int]) -> int:
+    """One exit code for several results: 2 (bad input) over 1 (fail) over 3 (inconclusive)."""
+    for c in (2, 1, 3):
+        if c in codes:
+            return c
+    return 0
+
+
+if __name__ == "__main__":  # pragma: no cover
+    main()

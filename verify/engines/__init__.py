@@ -1,0 +1,50 @@
+"""Engines: each is ``run(design, spec, options) -> EngineOutcome``.
+
+``exhaustive`` simulates every input combination, ``smt`` asks z3 for an input where the design and
+the spec differ, ``random`` simulates seeded vectors aimed at the hard cases of addition. Engines do
+not print; they call ``options.progress(done, total)`` when it is set.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Callable, Mapping
+
+from verify.netlist import Netlist
+from verify.result import Counterexample
+
+#: the largest input space the exhaustive engine takes by default: 2^26 vectors
+DEFAULT_EXHAUSTIVE_BITS = 26
+#: the random engine's default number of vectors
+DEFAULT_VECTORS = 200_000
+#: seconds a solver or a long simulation may take before its outcome is inconclusive
+DEFAULT_TIMEOUT = 60.0
+
+
+@dataclass(frozen=True)
+class Options:
+    seed: int = 1
+    vectors: int | None = None
+    timeout: float = DEFAULT_TIMEOUT
+    exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS
+    #: (index from 1, count): cover only that part of the exhaustive input space
+    shard: tuple[int, int] | None = None
+    progress: Callable[[int, int], None] | None = None
+
+
+def confirm(design: Netlist, spec, inputs: Mapping[str, int], simulator=None) -> Counterexample | None:
+    """Re-simulate one vector on the design and re-evaluate the spec on Python integers.
+
+    Returns the counterexample when they differ, None when they agree. Every engine passes its
+    candidate through here, so a reported failure never rests on one engine's word alone.
+    """
+    from verify.sim import Simulator
+
+    sim = simulator or Simulator(design)
+    ins = {p.name: int(inputs.get(p.name, 0)) & ((1 << p.width) - 1) for p in design.inputs}
+    actual = sim.evaluate(ins)
+    expected = spec.evaluate(ins)
+    if all(actual[p] == expected[p] for p in expected):
+        return None
+    return Counterexample(ins, {p.name: expected[p.name] for p in design.outputs},
+                          {p.name: actual[p.name] for p in design.outputs})

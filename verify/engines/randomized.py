@@ -1,0 +1,214 @@
+"""Random engine: seeded, reproducible, bit-parallel vectors aimed at the hard cases of addition.
+
+Its outcome is always "tested N vectors", never a proof. Each batch holds thousands of vectors,
+bit-sliced into Python integers and run through the design beside the spec's reference
+(``sim.Miter``). The stream of vectors, for operands a, b (the widest inputs):
+
+1. a sweep of propagate runs: for every start bit s and every length L, a XOR b is all ones over
+   bits s..s+L-1 (a - b style: a equals b there), the bit below the run generates or kills, the
+   rest is random; each with carry-in 0 and 1. When the sweep would take more than half the
+   budget, runs are drawn at random instead (lengths spread evenly on a log scale);
+2. then a mix: more random runs, special values (0, all ones, 0101..., 1010..., the largest and
+   smallest signed values, 1) in every pairing, and uniform vectors.
+
+One-bit inputs (carry-in, mode bits) alternate 0 and 1 through the stream.
+"""
+
+from __future__ import annotations
+
+import time
+
+import numpy as np
+
+from verify.engines import DEFAULT_VECTORS, Options, confirm
+from verify.result import EngineOutcome
+from verify.sim import Miter
+
+_BITS_PER_BATCH = 1 << 22
+
+
+def run(design, spec, options: Options) -> EngineOutcome:
+    started = time.perf_counter()
+    budget = options.vectors if options.vectors is not None else DEFAULT_VECTORS
+    miter = Miter(design, spec.reference())
+    gen = VectorStream(design, options.seed, budget)
+    done = 0
+    details = {"seed": options.seed}
+    for batch in gen.batches():
+        k = batch.count
+        diff = miter.run(batch.words, (1 << k) - 1)
+        if diff:
+            j = (diff & -diff).bit_length() - 1
+            cex = confirm(design, spec, batch.vector(j))
+            if cex is None:
+                raise RuntimeError("random engine: a vector differs from the reference but not "
+                                   "from the integer spec")
+            done += j + 1
+            seconds = time.perf_counter() - started
+            details["vectors_per_second"] = round(done / seconds) if seconds else None
+            details["found_by"] = batch.kind(j)
+            return EngineOutcome("random", "fail", seconds,
+                                 f"vector {done:,} (seed {options.seed}, {batch.kind(j)}) gives a "
+                                 f"wrong output", vectors=done, counterexample=cex, details=details)
+        done += k
+        if options.progress:
+            options.progress(done, budget)
+        if time.perf_counter() - started > options.timeout:
+            break
+    seconds = time.perf_counter() - started
+    details["vectors_per_second"] = round(done / seconds) if seconds else None
+    details["mix"] = gen.mix
+    if done < budget:
+        return EngineOutcome("random", "inconclusive", seconds,
+                             f"stopped at the {options.timeout:g} s limit after {done:,} of "
+                             f"{budget:,} vectors, all matching", vectors=done, details=details)
+    return EngineOutcome("random", "pass", seconds,
+                         f"tested {done:,} vectors (seed {options.seed}): all outputs match; a "
+                         f"sample, not a proof", vectors=done, details=details)
+
+
+class Batch:
+    def __init__(self, design, bits: dict[str, np.ndarray], kinds: np.ndarray,
+                 run_s: np.ndarray | None = None, run_len: np.ndarray | None = None):
+        self.design = design
+        self.count = len(kinds)
+        self._kinds = kinds  # 0 uniform, 1 propagate run, 2 special values
+        self._run = (run_s, run_len)
+        self._bits = bits
+        self.words = []
+        for p in design.inputs:
+            m = bits[p.name]  # (count, width) of 0/1
+            packed = np.packbits(np.ascontiguousarray(m.T), axis=1, bitorder="little")
+            self.words.extend(int.from_bytes(row.tobytes(), "little") for row in packed)
+
+    def kind(self, j: int) -> str:
+        k = int(self._kinds[j])
+        if k == 1:
+            s, n = int(self._run[0][j]), int(self._run[1][j])
+            return f"propagate run over bits {s}..{s + n - 1}"
+        return "special values" if k == 2 else "uniform"
+
+    def vector(self, j: int) -> dict[str, int]:
+        out = {}
+        for p in self.design.inputs:
+            row = self._bits[p.name][j]
+            out[p.name] = int.from_bytes(np.packbits(row, bitorder="little").tobytes(), "little")
+        return out
+
+
+class VectorStream:
+    """The engine's vectors, as batches of bit matrices, reproducible from the seed."""
+
+    def __init__(self, design, seed: int, budget: int):
+        self.design = design
+        self.rng = np.random.default_rng(seed)
+        self.budget = budget
+        widest = max(p.width for p in design.inputs)
+        self.operands = [p for p in design.inputs if p.width == widest and widest > 1]
+        self.controls = [p for p in design.inputs if p not in self.operands]
+        self.width = widest
+        w = widest
+        runs = w * (w + 1) // 2
+        self.sweep = 4 * runs if self.operands and 4 * runs <= budget // 2 else 0
+        total_bits = max(1, design.input_width)
+        self.batch = int(min(16384, max(256, 1 << int(np.log2(max(1, _BITS_PER_BATCH // total_bits))))))
+        self.mix: dict[str, int] = {}
+
+    def batches(self):
+        done = 0
+        while done < self.budget:
+            k = min(self.batch, self.budget - done)
+            yield self._make(done, k)
+            done += k
+
+    # ---- one batch ------------------------------------------------------------------------
+    def _make(self, start: int, k: int) -> Batch:
+        rng = self.rng
+        bits = {p.name: rng.integers(0, 2, size=(k, p.width), dtype=np.uint8)
+                for p in self.design.inputs}
+        kinds = np.zeros(k, dtype=np.uint8)
+        run_s = run_len = None
+        index = np.arange(start, start + k)
+        if self.operands:
+            w = self.width
+            in_sweep = index < self.sweep
+            run_s = np.zeros(k, dtype=np.int64)
+            run_len = np.zeros(k, dtype=np.int64)
+            # the sweep: every (start, length) pair, 4 vectors each (carry below the run x cin)
+            pair = index[in_sweep] // 4
+            s, length = _pair_to_run(pair, w)
+            run_s[in_sweep], run_len[in_sweep] = s, length
+            # after the sweep: 2 of every 5 vectors a random run, 1 special values, 2 uniform
+            slot = (index - self.sweep) % 5
+            rand_run = ~in_sweep & (slot < 2)
+            nr = int(rand_run.sum())
+            if nr:
+                length = np.minimum(w, np.exp(rng.uniform(0, np.log(w + 1), nr)).astype(np.int64))
+                length = np.maximum(length, 1)
+                run_s[rand_run] = rng.integers(0, w - length + 1)
+                run_len[rand_run] = length
+            is_run = in_sweep | rand_run
+            self._runs(bits, is_run, run_s, run_len, index)
+            special = ~in_sweep & (slot == 2)
+            self._specials(bits, special)
+            kinds[is_run] = 1
+            kinds[special] = 2
+            self._count("propagate runs", int(is_run.sum()))
+            self._count("special values", int(special.sum()))
+            self._count("uniform", int(k - is_run.sum() - special.sum()))
+        else:
+            self._count("uniform", k)
+        for n, p in enumerate(self.controls):
+            if p.width == 1 and n == 0:  # the carry-in (or a mode bit) alternates
+                bits[p.name][:, 0] = index % 2
+        return Batch(self.design, bits, kinds, run_s, run_len)
+
+    def _count(self, kind: str, n: int) -> None:
+        if n:
+            self.mix[kind] = self.mix.get(kind, 0) + n
+
+    def _runs(self, bits, rows, s, length, index) -> None:
+        w = self.width
+        cols = np.arange(w)
+        sel = np.flatnonzero(rows)
+        if not len(sel):
+            return
+        mask = (cols[None, :] >= s[sel, None]) & (cols[None, :] < (s[sel] + length[sel])[:, None])
+        a = bits[self.operands[0].name]
+        if len(self.operands) == 1:  # one operand (an incrementer): a run of ones in a
+            a[sel] |= mask.astype(np.uint8)
+            return
+        b = bits[self.operands[1].name]
+        subtract_style = (index[sel] // 2) % 2 == 1
+        inv = np.where(subtract_style[:, None], ~mask, mask).astype(np.uint8)
+        b[sel] = a[sel] ^ inv
+        # the bit just below the run: generate (carry into the run) or kill, alternately
+        below = s[sel] - 1
+        has = below >= 0
+        rows_b, cols_b = sel[has], below[has]
+        gen = (index[rows_b] % 4) < 2
+        a[rows_b, cols_b] = gen
+        b[rows_b, cols_b] = np.where(subtract_style[has], 0, gen)
+
+    def _specials(self, bits, rows) -> None:
+        sel = np.flatnonzero(rows)
+        if not len(sel):
+            return
+        for p in self.operands:
+            table = _special_values(p.width)
+            pick = self.rng.integers(0, len(table), size=len(sel))
+            bits[p.name][sel] = table[pick]
+
+
+def _pair_to_run(pair: np.ndarray, w: int) -> tuple[np.ndarray, np.ndarray]:
+    """Number every (start, length) run of a w-bit word; map numbers back to runs."""
+    starts = np.repeat(np.arange(w), np.arange(w, 0, -1))
+    lengths = np.concatenate([np.arange(1, w - s + 1) for s in range(w)])
+    return starts[pair], lengths[pair]
+
+
+def _special_values(w: int) -> np.ndarray:
+    cols = np.arange(w)
+    rows = [np.zeros(w), np.ones(w), cols % 2 == 0, cols % 2 == 1,
+            cols < w - 1, cols == w - 1, cols == 0, cols >= w // 2]
+    return np.array(rows, dtype=np.uint8)

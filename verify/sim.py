@@ -1,0 +1,189 @@
+"""The netlist compiled once into straight-line bit-parallel Python.
+
+A netlist becomes the source of one Python function with one assignment per gate, then ``exec``-ed.
+Every variable holds a *word*: bit j of the word is the value of that net in vector j. Words are
+Python integers (any number of vectors at once; ``M`` is the all-ones mask of the word) or numpy
+``uint64`` arrays (64 vectors per element; ``M`` is ``np.uint64(2**64-1)``). The same source serves
+both: ``not x`` is written ``x ^ M``.
+
+``Simulator`` simulates one netlist; ``Miter`` simulates a design beside its reference and returns
+one word whose set bits are the vectors where any output differs.
+"""
+
+from __future__ import annotations
+
+from typing import Mapping, Sequence
+
+from verify.netlist import CONST0, CONST1, Netlist
+
+Word = int  # or a numpy uint64 array
+
+
+def _gate_expr(op: str, a: list[str]) -> str:
+    if op == "and":
+        return " & ".join(a)
+    if op == "or":
+        return " | ".join(a)
+    if op == "xor":
+        return " ^ ".join(a)
+    if op == "nand":
+        return f"({' & '.join(a)}) ^ M"
+    if op == "nor":
+        return f"({' | '.join(a)}) ^ M"
+    if op == "xnor":
+        return f"({' ^ '.join(a)}) ^ M"
+    if op == "not":
+        return f"{a[0]} ^ M"
+    if op == "buf":
+        return a[0]
+    if op == "mux":  # sel ? d1 : d0
+        s, d0, d1 = a
+        return f"{d0} ^ ({s} & ({d0} ^ {d1}))"
+    if op == "maj":
+        x, y, z = a
+        return f"({x} & {y}) | ({z} & ({x} | {y}))"
+    if op == "const0":
+        return "0"
+    if op == "const1":
+        return "M"
+    raise ValueError(f"unknown op {op}")  # pragma: no cover - validate() rejects it
+
+
+def emit(netlist: Netlist, tag: str, inputs: Mapping[str, str]) -> tuple[list[str], dict[str, str]]:
+    """Python lines computing every gate of ``netlist``; returns (lines, net -> variable).
+
+    ``inputs`` names the variable holding each input bit; internal variables are ``{tag}{k}``.
+    """
+    var: dict[str, str] = {CONST0: "0", CONST1: "M", **inputs}
+    lines = []
+    for k, g in enumerate(netlist.ordered_gates):
+        v = f"{tag}{k}"
+        lines.append(f"    {v} = {_gate_expr(g.op, [var[i] for i in g.inputs])}")
+        var[g.output] = v
+    return lines, var
+
+
+def _input_vars(netlist: Netlist) -> dict[str, str]:
+    return {b: f"i{k}" for k, b in enumerate(netlist.input_bits)}
+
+
+def _compile(name: str, args: list[str], lines: list[str], result: str):
+    src = f"def {name}(I, M):\n"
+    if args:
+        src += f"    {', '.join(args)}{',' if len(args) == 1 else ''} = I\n"
+    src += "\n".join(lines) + f"\n    return {result}\n"
+    scope: dict = {}
+    exec(compile(src, f"<{name}>", "exec"), scope)  # noqa: S102 - our own generated code
+    return scope[name], src
+
+
+class Simulator:
+    """One netlist, compiled. ``run`` takes one word per input bit (in ``netlist.input_bits``
+    order) and returns one word per output bit (``netlist.output_bits`` order)."""
+
+    def __init__(self, netlist: Netlist):
+        self.netlist = netlist
+        ivars = _input_vars(netlist)
+        lines, var = emit(netlist, "g", ivars)
+        outs = [var[b] for b in netlist.output_bits]
+        self._run, self.source = _compile("simulate", list(ivars.values()), lines,
+                                          "(" + ", ".join(outs) + ",)")
+        self._run_all = None
+        self._all_nets: list[str] = []
+
+    @property
+    def gate_count(self) -> int:
+        return len(self.netlist.gates)
+
+    def run(self, words: Sequence[Word], mask: Word) -> tuple[Word, ...]:
+        return self._run(words, mask)
+
+    def run_all(self, words: Sequence[Word], mask: Word) -> dict[str, Word]:
+        """Every net's word: inputs, gate outputs (for waveforms and diagnosis)."""
+        if self._run_all is None:
+            ivars = _input_vars(self.netlist)
+            lines, var = emit(self.netlist, "g", ivars)
+            self._all_nets = list(self.netlist.input_bits) + [g.output for g in self.netlist.ordered_gates]
+            self._run_all, _ = _compile("simulate_all", list(ivars.values()), lines,
+                                        "(" + ", ".join(var[n] for n in self._all_nets) + ",)")
+        values = self._run_all(words, mask)
+        return dict(zip(self._all_nets, values))
+
+    def evaluate(self, inputs: Mapping[str, int]) -> dict[str, int]:
+        """One vector: {input port: int} -> {output port: int}."""
+        return self.evaluate_many([inputs])[0]
+
+    def evaluate_many(self, vectors: Sequence[Mapping[str, int]]) -> list[dict[str, int]]:
+        words = pack(self.netlist, vectors)
+        mask = (1 << len(vectors)) - 1
+        outs = self.run(words, mask)
+        return unpack(self.netlist, outs, len(vectors))
+
+
+class Miter:
+    """A design and its reference side by side on the same input words.
+
+    ``run(words, mask)`` returns a word with bit j set where vector j makes any output bit of the
+    design differ from the reference. Both netlists must have the same input and output ports.
+    """
+
+    def __init__(self, design: Netlist, reference: Netlist):
+        if [(p.name, p.width) for p in design.inputs] != [(p.name, p.width) for p in reference.inputs]:
+            raise ValueError("design and reference inputs differ")
+        if sorted((p.name, p.width) for p in design.outputs) != sorted(
+                (p.name, p.width) for p in reference.outputs):
+            raise ValueError("design and reference outputs differ")
+        ivars = _input_vars(design)
+        dl, dvar = emit(design, "d", ivars)
+        rl, rvar = emit(reference, "r", ivars)
+        diffs = [f"({dvar[b]} ^ {rvar[b]})" for b in design.output_bits]
+        self.gate_count = len(design.gates) + len(reference.gates)
+        self._run, self.source = _compile("miter", list(ivars.values()), dl + rl,
+                                          " | ".join(diffs) if diffs else "0")
+
+    def run(self, words: Sequence[Word], mask: Word) -> Word:
+        return self._run(words, mask)
+
+
+# ---- packing vectors into words and back ----------------------------------------------------
+
+def pack(netlist: Netlist, vectors: Sequence[Mapping[str, int]]) -> list[int]:
+    """Bit-slice vectors: one Python int per input bit, bit j from vector j."""
+    words = []
+    for p in netlist.inputs:
+        values = [v.get(p.name, 0) for v in vectors]
+        for i in range(p.width):
+            w = 0
+            for j, x in enumerate(values):
+                if x >> i & 1:
+                    w |= 1 << j
+            words.append(w)
+    return words
+
+
+def unpack(netlist: Netlist, outs: Sequence[int], count: int) -> list[dict[str, int]]:
+    """Output words back to one {port: int} per vector."""
+    result: list[dict[str, int]] = [{} for _ in range(count)]
+    k = 0
+    for p in netlist.outputs:
+        port_words = outs[k:k + p.width]
+        k += p.width
+        for j in range(count):
+            v = 0
+            for i, w in enumerate(port_words):
+                v |= (int(w) >> j & 1) << i
+            result[j][p.name] = v
+    return result
+
+
+def vector_of(netlist: Netlist, words: Sequence[int], j: int) -> dict[str, int]:
+    """The input vector held in position j of bit-sliced input words."""
+    out: dict[str, int] = {}
+    k = 0
+    for p in netlist.inputs:
+        v = 0
+        for i in range(p.width):
+            v |= (int(words[k + i]) >> j & 1) << i
+        k += p.width
+        out[p.name] = v
+    return out
