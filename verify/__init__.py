@@ -13,18 +13,9 @@ __version__ = "0.1.0"
 from verify.errors import InputError  # noqa: E402
 from verify.netlist import Gate, Netlist, Port  # noqa: E402
 from verify.result import CheckResult, Verdict  # noqa: E402
-
-
-def load(paths, **options):
-    """Read a design (JSON netlist or Verilog files) into a validated Netlist."""
-    from verify.formats import load as _load
-    return _load(paths, **options)
-
-
-def check(design, spec=None, **options):
-    """Check a design against a spec; see verify.check.check for the options."""
-    from verify.check import check as _check
-    return _check(design, spec, **options)
+from verify.formats import load  # noqa: E402
+# Bound after the submodule is imported, so that ``verify.check`` is the function, not the module.
+from verify.check import check  # noqa: E402
 
 
 __all__ = ["load", "check", "Netlist", "Gate", "Port", "CheckResult", "Verdict", "InputError",

@@ -142,8 +142,8 @@ def design_units(paths: tuple[str, ...]) -> list[list[Path]]:
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
               params, include_dirs, defines, as_json, log_dir, no_log):
     """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
-    from verify import check as api
-    from verify import logbook, reports
+    from verify import logbook
+    from verify.check import check
     from verify.formats import load
 
     try:
@@ -160,7 +160,7 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
             try:
                 design = load(files, top=top, params=point, include_dirs=include_dirs,
                               defines=define_map)
-                result = api.check(design, spec, engine=engine, seed=seed, vectors=vectors,
+                result = check(design, spec, engine=engine, seed=seed, vectors=vectors,
                                    timeout=timeout, require=require,
                                    exhaustive_limit=exhaustive_limit, shard=shard_t,
                                    progress=_progress(as_json))
