@@ -1,0 +1,124 @@
+"""`verify check` end to end: output, --json, exit codes, the run log, and bad input."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pytest
+
+from tests.helpers import rewire, ripple
+from verify.cli import main
+from verify.formats import json_netlist
+
+
+@pytest.fixture()
+def files(tmp_path):
+    good = tmp_path / "good8.json"
+    good.write_text(json_netlist.dumps(ripple(8)))
+    bad = tmp_path / "bad8.json"
+    bad.write_text(json_netlist.dumps(rewire(ripple(8), "sum[5]", op="or")))
+    return tmp_path, good, bad
+
+
+def run(argv, capsys):
+    with pytest.raises(SystemExit) as e:
+        main(argv)
+    out = capsys.readouterr()
+    return e.value.code, out.out, out.err
+
+
+def test_a_correct_design_passes_with_exit_0(files, capsys):
+    tmp, good, _ = files
+    code, out, err = run(["check", str(good), "--log-dir", str(tmp / "logs")], capsys)
+    assert code == 0
+    assert "EXHAUSTIVE: all 2^17 = 131,072 input combinations" in out
+    assert "inferred from port names" in out
+    assert "not timing, glitches, X-propagation" in out
+
+
+def test_a_wrong_design_fails_with_exit_1_and_shows_the_counterexample(files, capsys):
+    tmp, _, bad = files
+    code, out, _ = run(["check", str(bad), "--log-dir", str(tmp / "logs")], capsys)
+    assert code == 1
+    assert "FAIL" in out and "counterexample:" in out and "wrong bits: 5" in out
+    assert "0x" in out  # hex beside decimal
+
+
+def test_json_output_and_the_run_log(files, capsys):
+    tmp, _, bad = files
+    code, out, _ = run(["check", str(bad), "--json", "--log-dir", str(tmp / "logs")], capsys)
+    data = json.loads(out)
+    assert code == 1 and data["ok"] is False and data["verdict"] == "fail"
+    assert all({"engine", "status", "seconds"} <= set(e) for e in data["engines"])
+    cex = data["counterexample"]
+    total = cex["inputs"]["a"] + cex["inputs"]["b"] + cex["inputs"]["cin"]  # Python integers
+    assert cex["expected"] == {"sum": total % 256, "cout": total >> 8}
+    assert cex["actual"] != cex["expected"]
+    log = [json.loads(x) for x in (tmp / "logs" / "runs.jsonl").read_text().splitlines()]
+    assert len(log) == 1 and log[0]["verdict"] == "fail"
+    assert log[0]["design_hash"] == data["design"]["hash"]
+    assert log[0]["counterexample"]["inputs"] == cex["inputs"]
+
+
+def test_require_complete_turns_a_sample_into_exit_3(files, capsys):
+    tmp, good, _ = files
+    args = ["check", str(good), "--engine", "random", "--no-log"]
+    assert run(args, capsys)[0] == 0
+    code, out, _ = run(args + ["--require", "complete"], capsys)
+    assert code == 3 and "TESTED" in out
+
+
+def test_a_folder_checks_every_design_and_summarises(files, capsys):
+    tmp, _, _ = files
+    code, out, _ = run(["check", str(tmp), "--no-log"], capsys)
+    assert code == 1
+    assert "summary:" in out and "1 fail" in out and "1 exhaustive" in out
+
+
+@pytest.mark.parametrize("argv_tail, message", [
+    (["--spec", "{cout, sum} = a + + "], "spec"),
+    (["--spec", "{cout, sum} = a + d"], "'d'"),
+    (["--engine", "magic"], "magic"),
+    (["--shard", "3/2", "--engine", "exhaustive"], "shard"),
+    (["--vectors", "0", "--engine", "random"], "--vectors"),
+    (["--param", "W"], "--param"),
+])
+def test_bad_usage_is_one_line_and_exit_2(files, capsys, argv_tail, message):
+    _, good, _ = files
+    code, out, err = run(["check", str(good), "--no-log", *argv_tail], capsys)
+    assert code == 2
+    assert message in err
+    assert err.startswith("error: ") and err.count("\n") == 1
+    assert "Traceback" not in err + out
+
+
+def test_bad_files_are_one_line_and_exit_2(tmp_path, capsys):
+    broken = tmp_path / "broken.json"
+    broken.write_text('{"format": "verify-netlist/1", "inputs": {"a": 1}, "outputs": {"y": 1}, '
+                      '"gates": [{"out": "y", "op": "and", "in": ["a", "q"]}]}')
+    code, _, err = run(["check", str(broken), "--no-log"], capsys)
+    assert code == 2 and "signal 'q' is not driven" in err and err.count("\n") == 1
+    code, _, err = run(["check", str(tmp_path / "missing.json"), "--no-log"], capsys)
+    assert code == 2 and "no such file" in err
+    (tmp_path / "x.txt").write_text("hello")
+    code, _, err = run(["check", str(tmp_path / "x.txt"), "--no-log"], capsys)
+    assert code == 2 and "unknown design format" in err
+
+
+def test_bad_input_in_json_mode_still_prints_json(tmp_path, capsys):
+    code, out, err = run(["check", str(tmp_path / "missing.json"), "--json", "--no-log"], capsys)
+    assert code == 2 and json.loads(out)["verdict"] == "error"
+
+
+def test_the_installed_command_and_python_dash_m(files):
+    tmp, good, _ = files
+    for cmd in ([sys.executable, "-m", "verify"],):
+        p = subprocess.run([*cmd, "check", str(good), "--no-log", "--json"], capture_output=True,
+                           text=True, timeout=120)
+        assert p.returncode == 0, p.stderr
+        assert json.loads(p.stdout)["verdict"] == "exhaustive"
+        p = subprocess.run([*cmd, "check", str(good), "--spec", "sum = a +"], capture_output=True,
+                           text=True, timeout=120)
+        assert p.returncode == 2 and "Traceback" not in p.stderr and p.stderr.count("\n") == 1
