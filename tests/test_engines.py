@@ -112,7 +112,8 @@ def test_auto_is_inconclusive_when_its_complete_engine_gives_no_answer():
     d = array_multiplier(14)  # 28 input bits: over the exhaustive limit below, so auto picks smt
     r = verify.check(d, "p = a * b", timeout=0.05, exhaustive_limit=20)
     assert [e.engine for e in r.engines] == ["random", "smt"]
-    assert r.engines[0].status == "pass" and r.engines[1].status == "inconclusive"
+    # random may itself stop at so short a limit on a loaded machine; it can never pass the design
+    assert r.engines[0].status in ("pass", "inconclusive") and r.engines[1].status == "inconclusive"
     assert r.verdict is Verdict.INCONCLUSIVE and r.exit_code == 3
 
 

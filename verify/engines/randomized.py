@@ -77,8 +77,8 @@ class Batch:
         self._bits = bits
         self.words = []
         for p in design.inputs:
-            m = bits[p.name]  # (count, width) of 0/1
-            packed = np.packbits(np.ascontiguousarray(m.T), axis=1, bitorder="little")
+            m = bits[p.name]  # (width, count) of 0/1: row i is bit i of every vector
+            packed = np.packbits(m, axis=1, bitorder="little")
             self.words.extend(int.from_bytes(row.tobytes(), "little") for row in packed)
 
     def kind(self, j: int) -> str:
@@ -91,7 +91,7 @@ class Batch:
     def vector(self, j: int) -> dict[str, int]:
         out = {}
         for p in self.design.inputs:
-            row = self._bits[p.name][j]
+            row = self._bits[p.name][:, j]
             out[p.name] = int.from_bytes(np.packbits(row, bitorder="little").tobytes(), "little")
         return out
 
@@ -124,8 +124,7 @@ class VectorStream:
     # ---- one batch ------------------------------------------------------------------------
     def _make(self, start: int, k: int) -> Batch:
         rng = self.rng
-        bits = {p.name: rng.integers(0, 2, size=(k, p.width), dtype=np.uint8)
-                for p in self.design.inputs}
+        bits = {p.name: _random_bits(rng, p.width, k) for p in self.design.inputs}
         kinds = np.zeros(k, dtype=np.uint8)
         run_s = run_len = None
         index = np.arange(start, start + k)
@@ -160,7 +159,7 @@ class VectorStream:
             self._count("uniform", k)
         for n, p in enumerate(self.controls):
             if p.width == 1 and n == 0:  # the carry-in (or a mode bit) alternates
-                bits[p.name][:, 0] = index % 2
+                bits[p.name][0, :] = index % 2
         return Batch(self.design, bits, kinds, run_s, run_len)
 
     def _count(self, kind: str, n: int) -> None:
@@ -168,36 +167,41 @@ class VectorStream:
             self.mix[kind] = self.mix.get(kind, 0) + n
 
     def _runs(self, bits, rows, s, length, index) -> None:
-        w = self.width
-        cols = np.arange(w)
-        sel = np.flatnonzero(rows)
-        if not len(sel):
+        """Rows flagged in ``rows`` get a propagate run over bits s..s+length-1."""
+        if not rows.any():
             return
-        mask = (cols[None, :] >= s[sel, None]) & (cols[None, :] < (s[sel] + length[sel])[:, None])
+        cols = np.arange(self.width)[:, None]
+        end = np.where(rows, s + length, s)  # rows without a run get an empty one
+        mask = (cols >= s[None, :]) & (cols < end[None, :])  # (width, count)
         a = bits[self.operands[0].name]
         if len(self.operands) == 1:  # one operand (an incrementer): a run of ones in a
-            a[sel] |= mask.astype(np.uint8)
+            a |= mask.astype(np.uint8)
             return
         b = bits[self.operands[1].name]
-        subtract_style = (index[sel] // 2) % 2 == 1
-        inv = np.where(subtract_style[:, None], ~mask, mask).astype(np.uint8)
-        b[sel] = a[sel] ^ inv
+        subtract_style = (index // 2) % 2 == 1
+        inv = (mask ^ subtract_style[None, :]).astype(np.uint8)
+        np.copyto(b, a ^ inv, where=rows[None, :])
         # the bit just below the run: generate (carry into the run) or kill, alternately
+        sel = np.flatnonzero(rows & (s >= 1))
         below = s[sel] - 1
-        has = below >= 0
-        rows_b, cols_b = sel[has], below[has]
-        gen = (index[rows_b] % 4) < 2
-        a[rows_b, cols_b] = gen
-        b[rows_b, cols_b] = np.where(subtract_style[has], 0, gen)
+        gen = ((index[sel] % 4) < 2).astype(np.uint8)
+        a[below, sel] = gen
+        b[below, sel] = np.where(subtract_style[sel], 0, gen)
 
     def _specials(self, bits, rows) -> None:
-        sel = np.flatnonzero(rows)
-        if not len(sel):
+        if not rows.any():
             return
         for p in self.operands:
             table = _special_values(p.width)
-            pick = self.rng.integers(0, len(table), size=len(sel))
-            bits[p.name][sel] = table[pick]
+            pick = self.rng.integers(0, len(table), size=len(rows))
+            np.copyto(bits[p.name], table[pick].T, where=rows[None, :])
+
+
+def _random_bits(rng, width: int, count: int) -> np.ndarray:
+    """(width, count) uniform 0/1 bits, from random bytes (eight bits a byte)."""
+    raw = np.frombuffer(rng.bytes(width * ((count + 7) // 8)), dtype=np.uint8)
+    bits = np.unpackbits(raw.reshape(width, -1), axis=1, bitorder="little")
+    return np.ascontiguousarray(bits[:, :count])
 
 
 def _pair_to_run(pair: np.ndarray, w: int) -> tuple[np.ndarray, np.ndarray]:
