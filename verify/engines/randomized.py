@@ -137,8 +137,9 @@ class VectorStream:
             pair = index[in_sweep] // 4
             s, length = _pair_to_run(pair, w)
             run_s[in_sweep], run_len[in_sweep] = s, length
-            # after the sweep: 2 of every 5 vectors a random run, 1 special values, 2 uniform
-            slot = (index - self.sweep) % 5
+            # after the sweep, in blocks of a fifth of a batch: 2 random runs, 1 special
+            # values, 2 uniform
+            slot = ((index - self.sweep) * 5 // self.batch) % 5
             rand_run = ~in_sweep & (slot < 2)
             nr = int(rand_run.sum())
             if nr:
@@ -168,18 +169,20 @@ class VectorStream:
 
     def _runs(self, bits, rows, s, length, index) -> None:
         """Rows flagged in ``rows`` get a propagate run over bits s..s+length-1."""
-        if not rows.any():
+        span = _span(rows)
+        if span is None:
             return
+        rows, s, length, index = rows[span], s[span], length[span], index[span]
         cols = np.arange(self.width)[:, None]
         end = np.where(rows, s + length, s)  # rows without a run get an empty one
-        mask = (cols >= s[None, :]) & (cols < end[None, :])  # (width, count)
-        a = bits[self.operands[0].name]
+        mask = (cols >= s[None, :]) & (cols < end[None, :])  # (width, vectors in the span)
+        a = bits[self.operands[0].name][:, span]
         if len(self.operands) == 1:  # one operand (an incrementer): a run of ones in a
-            a |= mask.astype(np.uint8)
+            a |= mask.view(np.uint8)
             return
-        b = bits[self.operands[1].name]
+        b = bits[self.operands[1].name][:, span]
         subtract_style = (index // 2) % 2 == 1
-        inv = (mask ^ subtract_style[None, :]).astype(np.uint8)
+        inv = (mask ^ subtract_style[None, :]).view(np.uint8)
         np.copyto(b, a ^ inv, where=rows[None, :])
         # the bit just below the run: generate (carry into the run) or kill, alternately
         sel = np.flatnonzero(rows & (s >= 1))
@@ -189,12 +192,20 @@ class VectorStream:
         b[below, sel] = np.where(subtract_style[sel], 0, gen)
 
     def _specials(self, bits, rows) -> None:
-        if not rows.any():
+        span = _span(rows)
+        if span is None:
             return
         for p in self.operands:
-            table = _special_values(p.width)
-            pick = self.rng.integers(0, len(table), size=len(rows))
-            np.copyto(bits[p.name], table[pick].T, where=rows[None, :])
+            table = np.ascontiguousarray(_special_values(p.width).T)  # (width, kinds)
+            pick = self.rng.integers(0, table.shape[1], size=span.stop - span.start)
+            np.copyto(bits[p.name][:, span], np.take(table, pick, axis=1),
+                      where=rows[None, span])
+
+
+def _span(rows: np.ndarray) -> slice | None:
+    """The smallest slice holding every flagged row (kinds come in blocks, so it is tight)."""
+    idx = np.flatnonzero(rows)
+    return slice(int(idx[0]), int(idx[-1]) + 1) if len(idx) else None
 
 
 def _random_bits(rng, width: int, count: int) -> np.ndarray:
