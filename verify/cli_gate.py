@@ -1,0 +1,173 @@
+"""``verify run`` (check every entry of a manifest) and ``verify merge`` (join exhaustive shards).
+
+``register(cli)`` adds both commands to the main click group (verify.cli).
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+import click
+
+from verify.errors import InputError
+
+
+def register(cli: click.Group) -> click.Group:
+    """Add ``run`` and ``merge`` to ``cli`` (a second call changes nothing)."""
+    if "run" not in cli.commands:
+        cli.add_command(run_cmd)
+    if "merge" not in cli.commands:
+        cli.add_command(merge_cmd)
+    return cli
+
+
+class _PlainProgress:
+    """One line per finished check on stderr (when stderr is not a terminal)."""
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        return False
+
+    def __call__(self, event, done, total, record, label):
+        if event == "done" and record is not None:
+            how = "cached" if record["cached"] else f"{record['seconds']:.2f} s"
+            click.echo(f"[{done}/{total}] {label}: {record['verdict']} ({how})", err=True)
+
+
+class _RichProgress:
+    """A rich progress bar on stderr, with the check in hand and each result as it lands."""
+
+    def __enter__(self):
+        from rich.console import Console
+        from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeElapsedColumn
+
+        self.console = Console(stderr=True)
+        self.bar = Progress(TextColumn("verifying"), BarColumn(), MofNCompleteColumn(),
+                            TimeElapsedColumn(), TextColumn("{task.description}"),
+                            console=self.console, transient=True)
+        self.bar.__enter__()
+        self.task = None
+        return self
+
+    def __exit__(self, *exc):
+        return self.bar.__exit__(*exc)
+
+    def __call__(self, event, done, total, record, label):
+        if self.task is None:
+            self.task = self.bar.add_task("", total=total)
+        if event == "start":
+            self.bar.update(self.task, description=label)
+            return
+        self.bar.update(self.task, completed=done, description=label)
+        if record is not None:
+            how = "cached" if record["cached"] else f"{record['seconds']:.2f} s"
+            mark = "ok" if record["ok"] else record["status"]
+            self.console.print(f"  {label}: {record['verdict']} ({how}) {mark}", highlight=False,
+                               markup=False)
+
+
+def _progress(quiet: bool):
+    if quiet:
+        return None
+    return _RichProgress() if sys.stderr.isatty() else _PlainProgress()
+
+
+def _write(path: str, text: str, what: str) -> None:
+    try:
+        p = Path(path)
+        if p.parent and not p.parent.exists():
+            p.parent.mkdir(parents=True, exist_ok=True)
+        p.write_text(text, encoding="utf-8")
+    except OSError as e:
+        raise InputError(f"cannot write the {what}: {e.strerror or e}", path) from None
+
+
+@click.command("run")
+@click.argument("manifest", required=False, metavar="[MANIFEST]")
+@click.option("--jobs", "-j", type=click.IntRange(1, 512), default=1, show_default=True,
+              help="Checks run at once, in separate processes (results do not depend on it).")
+@click.option("--junit", "junit_path", metavar="FILE", help="Write JUnit XML: a test case per "
+              "design and parameter value.")
+@click.option("--json", "json_path", metavar="FILE", help="Write the JSON summary ('-' prints it "
+              "instead of the table).")
+@click.option("--markdown", "md_path", metavar="FILE", help="Write a short Markdown summary for a "
+              "pull-request comment.")
+@click.option("--no-cache", is_flag=True, help="Check everything again, ignoring recorded verdicts.")
+@click.option("--cache-dir", metavar="DIR", help="Where verdicts are recorded (default: "
+              ".verify-cache next to the manifest).")
+@click.option("--only", "only", multiple=True, metavar="NAME", help="Check only this design "
+              "(repeatable).")
+@click.option("--quiet", "-q", is_flag=True, help="No progress display.")
+def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir, only, quiet):
+    """Check every design of MANIFEST (default ./verify.toml) at every parameter value.
+
+    Exit 0 when every entry meets its manifest, 1 when a result contradicts it (a counterexample,
+    or a proof for an entry marked expect = "fail"), 3 when a result is inconclusive or weaker
+    than its require, 2 for a bad manifest or a design that cannot be read.
+    """
+    from verify import gate
+    from verify import reports_batch as rb
+
+    try:
+        loaded = gate.load_manifest(manifest)
+    except InputError as e:
+        click.echo(f"error: {e}", err=True)
+        if json_path == "-":
+            click.echo(json.dumps({"ok": False, "exit_code": 2, "error": str(e), "entries": []}))
+        return 2
+    show = _progress(quiet or json_path == "-")
+    if show is None:
+        summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
+                           only=only or None)
+    else:
+        with show:
+            summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
+                               progress=show, only=only or None)
+    if junit_path:
+        _write(junit_path, rb.render_junit(summary), "JUnit report")
+    if md_path:
+        _write(md_path, rb.render_markdown(summary), "Markdown summary")
+    if json_path == "-":
+        click.echo(rb.dumps_json(summary), nl=False)
+    else:
+        if json_path:
+            _write(json_path, rb.dumps_json(summary), "JSON summary")
+        click.echo(rb.render_table(summary))
+    return summary.exit_code
+
+
+@click.command("merge")
+@click.argument("files", nargs=-1, required=True, metavar="FILE...")
+@click.option("--json", "as_json", is_flag=True, help="Print the merged result as JSON.")
+def merge_cmd(files, as_json):
+    """Join the JSON results of 'verify check --engine exhaustive --shard K/N --json'.
+
+    Exit 0 (exhaustive) only when all N shards are present, cover the input space once and pass;
+    1 when any shard found a counterexample; 3 when shards are missing or one stopped without an
+    answer; 2 when the files are not shards of one design and spec, or repeat or overlap.
+    """
+    from verify import shards
+
+    try:
+        merged = shards.merge(files)
+    except InputError as e:
+        if as_json:
+            click.echo(json.dumps({"ok": False, "verdict": "error", "exit_code": 2, "error": str(e)}))
+        click.echo(f"error: {e}", err=True)
+        return 2
+    if as_json:
+        click.echo(json.dumps(merged, indent=2))
+    else:
+        click.echo(shards.render_text(merged))
+    return merged["exit_code"]
+
+
+def main(argv: list[str] | None = None) -> None:
+    """``verify`` with these commands registered, whether or not verify.cli registers them."""
+    from verify import cli as main_cli
+    register(main_cli.cli)
+    main_cli.main(argv)

@@ -1,0 +1,505 @@
+"""Manifest runs for merge gating: every design of a repo, at every parameter value, each time.
+
+A manifest (``verify.toml`` at the repo root by default) lists designs::
+
+    [[design]]
+    name = "larkspur_acc"
+    files = ["rtl/larkspur_acc.sv"]
+    top = "larkspur_acc"
+    params = { W = [16, 32, 64] }
+    spec = "{cout, sum} = a + b + cin"
+    require = "complete"      # or "tested"
+    engine = "auto"
+    timeout = 120
+
+``name``, ``files`` and ``spec`` are required. Paths are relative to the manifest's folder.
+Optional keys: ``top``, ``params`` (a number or a list of numbers per parameter; several
+parameters give every combination), ``require`` (default ``complete``), ``engine`` (default
+``auto``), ``timeout`` (seconds, default 60), ``expect`` (``pass``, the default, or ``fail`` for a
+design broken on purpose: it meets expectations when a counterexample is found), ``include_dirs``,
+``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
+
+``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
+with the same results as one job - and reports each one from the cache (``verify.cache``) when
+nothing it rests on changed. Exit code of a run: 2 when any entry could not be read (bad input),
+else 1 when any result contradicts the manifest (a counterexample in a design expected to pass, or
+a proof for one expected to fail), else 3 when any result is inconclusive or weaker than its
+``require``, else 0.
+"""
+
+from __future__ import annotations
+
+import itertools
+import re
+import time
+from concurrent.futures import ProcessPoolExecutor, as_completed
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Callable, Iterable, Sequence
+
+from verify import __version__
+from verify.errors import InputError
+
+try:  # Python 3.11+
+    import tomllib as _toml
+except ImportError:  # pragma: no cover - Python 3.10
+    import tomli as _toml  # type: ignore[no-redef]
+
+MANIFEST_NAME = "verify.toml"
+ENGINES = ("auto", "exhaustive", "smt", "random")
+REQUIRES = ("complete", "tested")
+EXPECTS = ("pass", "fail")
+DEFAULT_TIMEOUT = 60.0
+KEYS = ("name", "files", "spec", "top", "params", "require", "engine", "timeout", "expect",
+        "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
+REQUIRED = ("name", "files", "spec")
+_VERILOG = (".v", ".sv", ".vh", ".svh")
+
+
+# ---- the manifest -----------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Entry:
+    """One ``[[design]]`` table, checked and with defaults filled in."""
+
+    name: str
+    files: tuple[str, ...]
+    spec: str
+    top: str | None = None
+    params: tuple[tuple[str, tuple[int, ...]], ...] = ()
+    require: str = "complete"
+    engine: str = "auto"
+    timeout: float = DEFAULT_TIMEOUT
+    expect: str = "pass"
+    include_dirs: tuple[str, ...] = ()
+    defines: tuple[tuple[str, str | None], ...] = ()
+    seed: int = 1
+    vectors: int | None = None
+    exhaustive_limit: int | None = None
+    #: where the entry starts, "verify.toml:12", for messages
+    where: str = ""
+
+    def points(self) -> list[dict[str, int]]:
+        """Every parameter combination, in manifest order ([{}] when there are no parameters)."""
+        names = [n for n, _ in self.params]
+        combos = itertools.product(*(vals for _, vals in self.params))
+        return [dict(zip(names, c)) for c in combos] or [{}]
+
+    def options(self) -> dict[str, Any]:
+        """The options that decide the outcome (part of the cache key)."""
+        return {"engine": self.engine, "require": self.require, "timeout": self.timeout,
+                "seed": self.seed, "vectors": self.vectors,
+                "exhaustive_limit": self.exhaustive_limit, "top": self.top,
+                "include_dirs": list(self.include_dirs), "defines": dict(self.defines)}
+
+
+@dataclass(frozen=True)
+class Manifest:
+    path: Path
+    entries: tuple[Entry, ...]
+
+    @property
+    def root(self) -> Path:
+        return self.path.parent
+
+
+def _lines(text: str) -> tuple[list[int], list[str]]:
+    """Line numbers (1-based) of each ``[[design]]`` header, and the text's lines."""
+    lines = text.splitlines()
+    heads = [i + 1 for i, line in enumerate(lines) if re.match(r"\s*\[\[\s*design\s*\]\]", line)]
+    return heads, lines
+
+
+def _key_line(lines: list[str], start: int, end: int, key: str) -> int | None:
+    pat = re.compile(rf"\s*(\"?){re.escape(key)}\1\s*=")
+    for n in range(start, min(end, len(lines) + 1)):
+        if pat.match(lines[n - 1]):
+            return n
+    return None
+
+
+def load_manifest(path: str | Path | None = None) -> Manifest:
+    """Read and check a manifest; every mistake is an InputError naming the entry and the key."""
+    path = Path(path) if path is not None else Path(MANIFEST_NAME)
+    if path.is_dir():
+        path = path / MANIFEST_NAME
+    if not path.is_file():
+        raise InputError("no such manifest (write a verify.toml, or give its path)", str(path))
+    try:
+        text = path.read_text(encoding="utf-8")
+    except (OSError, UnicodeDecodeError) as e:
+        raise InputError(f"cannot read the manifest: {e}", str(path)) from None
+    try:
+        data = _toml.loads(text)
+    except _toml.TOMLDecodeError as e:
+        msg = str(e)
+        m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
+        where = f"{path}:{m.group(1)}:{m.group(2)}" if m else str(path)
+        msg = re.sub(r"\s*\(at line \d+, column \d+\)", "", msg)
+        raise InputError(f"not valid TOML: {msg}", where) from None
+    heads, lines = _lines(text)
+    for key in data:
+        if key != "design":
+            raise InputError(f"unknown top-level key '{key}' (a manifest holds [[design]] tables)",
+                             str(path))
+    designs = data.get("design")
+    if designs is None:
+        raise InputError("no [[design]] entries", str(path))
+    if not isinstance(designs, list) or not all(isinstance(d, dict) for d in designs):
+        raise InputError("'design' must be a list of tables: write each one as [[design]]", str(path))
+    if not designs:
+        raise InputError("no [[design]] entries", str(path))
+    entries: list[Entry] = []
+    seen: dict[str, str] = {}
+    for i, table in enumerate(designs):
+        start = heads[i] if i < len(heads) else 0
+        end = heads[i + 1] if i + 1 < len(heads) else len(lines) + 1
+        entry = _entry(table, i, path, lines, start, end)
+        if entry.name in seen:
+            raise InputError(f"design '{entry.name}': the name is used twice (first at "
+                             f"{seen[entry.name]}); names must be unique", entry.where)
+        seen[entry.name] = entry.where
+        entries.append(entry)
+    return Manifest(path, tuple(entries))
+
+
+def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, end: int) -> Entry:
+    where = f"{path}:{start}" if start else str(path)
+    label = f"design '{table['name']}'" if isinstance(table.get("name"), str) and table["name"] \
+        else f"design #{index + 1}"
+
+    def bad(key: str, msg: str) -> InputError:
+        n = _key_line(lines, start, end, key) if start else None
+        return InputError(f"{label}: key '{key}': {msg}", f"{path}:{n}" if n else where)
+
+    for key in table:
+        if key not in KEYS:
+            close = [k for k in KEYS if _similar(k, key)]
+            hint = f" (did you mean '{close[0]}'?)" if close else f" (known keys: {', '.join(KEYS)})"
+            raise bad(key, f"unknown key{hint}")
+    for key in REQUIRED:
+        if key not in table:
+            raise InputError(f"{label}: the key '{key}' is required", where)
+
+    name = table["name"]
+    if not isinstance(name, str) or not name.strip():
+        raise bad("name", "must be a non-empty string")
+    if any(c in name for c in "\n\r\t"):
+        raise bad("name", "must be on one line")
+
+    files = table["files"]
+    if isinstance(files, str):
+        raise bad("files", f'must be a list of paths, e.g. files = ["{files}"]')
+    if not isinstance(files, list) or not files or not all(isinstance(f, str) and f.strip() for f in files):
+        raise bad("files", "must be a non-empty list of paths")
+    root = path.parent
+    for f in files:
+        p = root / f
+        if not p.is_file():
+            raise bad("files", f"no such file '{f}' (paths are relative to the manifest's folder)")
+        if p.suffix not in (".json", *_VERILOG):
+            raise bad("files", f"'{f}': unknown design format (expected .json, .v or .sv)")
+    kinds = {Path(f).suffix == ".json" for f in files}
+    if kinds == {True} and len(files) > 1:
+        raise bad("files", "give one JSON netlist per entry")
+    if len(kinds) > 1:
+        raise bad("files", "give either one JSON netlist or Verilog files, not both")
+    is_json = kinds == {True}
+
+    spec = table["spec"]
+    if not isinstance(spec, str) or not spec.strip():
+        raise bad("spec", 'must be a non-empty string, e.g. "{cout, sum} = a + b + cin"')
+
+    def choice(key: str, allowed: Sequence[str], default: str) -> str:
+        v = table.get(key, default)
+        if v not in allowed:
+            raise bad(key, f"{v!r} is not one of {', '.join(map(repr, allowed))}")
+        return v
+
+    def whole(key: str, lo: int, hi: int | None = None) -> int | None:
+        if key not in table:
+            return None
+        v = table[key]
+        if isinstance(v, bool) or not isinstance(v, int):
+            raise bad(key, f"must be a whole number, got {v!r}")
+        if v < lo or (hi is not None and v > hi):
+            rng = f"from {lo} to {hi}" if hi is not None else f"at least {lo}"
+            raise bad(key, f"must be {rng}, got {v}")
+        return v
+
+    top = table.get("top")
+    if top is not None and (not isinstance(top, str) or not top.strip()):
+        raise bad("top", "must be a module name")
+
+    params_in = table.get("params", {})
+    if not isinstance(params_in, dict):
+        raise bad("params", "must be a table, e.g. params = { W = [16, 32] }")
+    params: list[tuple[str, tuple[int, ...]]] = []
+    for pname, val in params_in.items():
+        vals = val if isinstance(val, list) else [val]
+        if not vals:
+            raise bad("params", f"parameter '{pname}' has an empty list of values")
+        for v in vals:
+            if isinstance(v, bool) or not isinstance(v, int):
+                raise bad("params", f"parameter '{pname}': {v!r} is not a whole number")
+        if len(set(vals)) != len(vals):
+            raise bad("params", f"parameter '{pname}' lists a value twice")
+        params.append((pname, tuple(vals)))
+
+    include_dirs = table.get("include_dirs", [])
+    if not isinstance(include_dirs, list) or not all(isinstance(d, str) and d for d in include_dirs):
+        raise bad("include_dirs", "must be a list of folders")
+    for d in include_dirs:
+        if not (root / d).is_dir():
+            raise bad("include_dirs", f"no such folder '{d}'")
+
+    defines_in = table.get("defines", {})
+    if not isinstance(defines_in, dict):
+        raise bad("defines", 'must be a table, e.g. defines = { FAST = "1" }')
+    defines: list[tuple[str, str | None]] = []
+    for dname, val in defines_in.items():
+        if val is True:
+            defines.append((dname, None))
+        elif isinstance(val, str) or (isinstance(val, int) and not isinstance(val, bool)):
+            defines.append((dname, str(val)))
+        else:
+            raise bad("defines", f"'{dname}': give a string, a number or true")
+
+    if is_json and (top or params or include_dirs or defines):
+        used = [k for k in ("top", "params", "include_dirs", "defines") if table.get(k)]
+        raise bad(used[0], "applies to Verilog files only; this entry is a JSON netlist")
+
+    timeout = table.get("timeout", DEFAULT_TIMEOUT)
+    if isinstance(timeout, bool) or not isinstance(timeout, (int, float)) or not timeout > 0:
+        raise bad("timeout", f"must be a positive number of seconds, got {timeout!r}")
+
+    seed = whole("seed", 0)
+    return Entry(
+        name=name, files=tuple(files), spec=spec, top=top, params=tuple(params),
+        require=choice("require", REQUIRES, "complete"), engine=choice("engine", ENGINES, "auto"),
+        timeout=float(timeout), expect=choice("expect", EXPECTS, "pass"),
+        include_dirs=tuple(include_dirs), defines=tuple(defines),
+        seed=1 if seed is None else seed, vectors=whole("vectors", 1),
+        exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where)
+
+
+def _similar(a: str, b: str) -> bool:
+    """Close spellings (one edit apart, or the same letters swapped)."""
+    if a == b:
+        return True
+    if sorted(a) == sorted(b):
+        return True
+    if abs(len(a) - len(b)) > 1:
+        return False
+    if len(a) == len(b):
+        return sum(x != y for x, y in zip(a, b)) == 1
+    short, long_ = sorted((a, b), key=len)
+    return any(long_[:i] + long_[i + 1:] == short for i in range(len(long_)))
+
+
+# ---- one check ----------------------------------------------------------------------------
+
+def label(name: str, point: dict[str, int]) -> str:
+    """'larkspur_acc W=32' - how an entry at one parameter point is named in every report."""
+    return " ".join([name, *(f"{k}={v}" for k, v in point.items())])
+
+
+def entry_files(entry: Entry, root: Path) -> list[Path]:
+    """The files an entry's design may be read from (see ``verify.cache.dependencies``)."""
+    from verify.cache import dependencies
+    return dependencies([root / f for f in entry.files], [root / d for d in entry.include_dirs])
+
+
+def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dict[str, str]]:
+    """(cache key, {file: sha256}) for one entry at one parameter point."""
+    from verify.cache import file_hashes, make_key
+    files = file_hashes(entry_files(entry, root), root)
+    return make_key(files, point, entry.spec, entry.options()), files
+
+
+def meets(verdict: str, require: str, expect: str) -> int:
+    """The exit code of one result against its manifest entry (0 meets it)."""
+    if verdict == "error":
+        return 2
+    if expect == "fail":
+        if verdict == "fail":
+            return 0
+        if verdict in ("proven", "exhaustive"):
+            return 1  # the manifest says broken; an engine established it is correct
+        return 3
+    from verify.result import Require, Verdict, exit_code
+    return exit_code(Verdict(verdict), Require(require))
+
+
+def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[str, Any]:
+    """Load and check one entry at one parameter point; a record for the reports.
+
+    Runs in worker processes: takes and returns plain, picklable values. Bad input becomes a record
+    with verdict ``error``; anything else escaping is a bug and propagates.
+    """
+    from verify.check import check
+    from verify.engines import DEFAULT_EXHAUSTIVE_BITS
+    from verify.formats import load
+
+    root = Path(root)
+    started = time.perf_counter()
+    base = {"name": entry.name, "params": dict(point), "label": label(entry.name, point),
+            "files": list(entry.files), "spec": entry.spec, "require": entry.require,
+            "expect": entry.expect, "engine": entry.engine}
+    try:
+        design = load([root / f for f in entry.files], top=entry.top, params=point or None,
+                      include_dirs=[str(root / d) for d in entry.include_dirs],
+                      defines=dict(entry.defines) or None)
+        result = check(design, entry.spec, engine=entry.engine, seed=entry.seed,
+                       vectors=entry.vectors, timeout=entry.timeout, require=entry.require,
+                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
+    except InputError as e:
+        return {**base, "verdict": "error", "error": str(e), "engines": [], "coverage":
+                "nothing was checked", "counterexample": None, "design_hash": None,
+                "checked_seconds": time.perf_counter() - started}
+    data = result.to_json()
+    return {**base, "verdict": result.verdict.value, "error": None,
+            "engines": [{"engine": e["engine"], "status": e["status"], "seconds": e["seconds"],
+                         "evidence": e["evidence"], **({"vectors": e["vectors"]} if "vectors" in e else {})}
+                        for e in data["engines"]],
+            "coverage": result.coverage, "counterexample": data.get("counterexample"),
+            "design_hash": result.design_hash, "design": data["design"],
+            "checked_seconds": result.seconds}
+
+
+def _finish(record: dict[str, Any], *, cached: bool, seconds: float, key: str | None,
+            files: dict[str, str]) -> dict[str, Any]:
+    out = dict(record)
+    out["cached"] = cached
+    out["seconds"] = seconds
+    out["key"] = key
+    out["file_hashes"] = files
+    out["exit_code"] = meets(out["verdict"], out["require"], out["expect"])
+    out["ok"] = out["exit_code"] == 0
+    out["status"] = status_word(out)
+    return out
+
+
+def status_word(record: dict[str, Any]) -> str:
+    """What a record means against its entry: met, contradicted, weak or error."""
+    code = record["exit_code"]
+    if code == 0:
+        return "met (expected fail)" if record["expect"] == "fail" else "met"
+    if code == 2:
+        return "error"
+    if code == 1:
+        return "unexpected pass" if record["expect"] == "fail" else "counterexample"
+    if record["verdict"] == "tested":
+        return "weaker than required"
+    return "inconclusive"
+
+
+# ---- a whole run --------------------------------------------------------------------------
+
+@dataclass
+class RunSummary:
+    """The outcome of one ``run``: a record per (entry, parameter point), in manifest order."""
+
+    manifest: str
+    records: list[dict[str, Any]]
+    seconds: float
+    jobs: int
+    cache_used: bool
+    tool_version: str = __version__
+    counts: dict[str, int] = field(default_factory=dict)
+
+    @property
+    def exit_code(self) -> int:
+        codes = [r["exit_code"] for r in self.records]
+        for c in (2, 1, 3):
+            if c in codes:
+                return c
+        return 0
+
+    @property
+    def ok(self) -> bool:
+        return self.exit_code == 0
+
+
+#: progress(event, done, total, record or None, label) with event "start" or "done"
+Progress = Callable[[str, int, int, "dict[str, Any] | None", str], None]
+
+
+def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cache: bool = True,
+        cache_dir: str | Path | None = None, progress: Progress | None = None,
+        only: Iterable[str] | None = None) -> RunSummary:
+    """Check every entry of ``manifest`` at every parameter point.
+
+    Records come back in manifest order whatever order workers finish in, so ``jobs`` changes the
+    time taken, never the results. ``only`` limits the run to the named entries.
+    """
+    from verify.cache import CACHE_DIR, Cache
+
+    started = time.perf_counter()
+    if not isinstance(manifest, Manifest):
+        manifest = load_manifest(manifest)
+    if jobs < 1:
+        raise InputError(f"--jobs must be at least 1, got {jobs}")
+    root = manifest.root
+    entries = list(manifest.entries)
+    if only is not None:
+        wanted = list(only)
+        names = {e.name for e in entries}
+        for n in wanted:
+            if n not in names:
+                raise InputError(f"no design named '{n}' in the manifest", str(manifest.path))
+        entries = [e for e in entries if e.name in wanted]
+    cache = Cache(Path(cache_dir) if cache_dir is not None else root / CACHE_DIR)
+    work = [(e, p) for e in entries for p in e.points()]
+    total = len(work)
+    records: list[dict[str, Any] | None] = [None] * total
+    pending: list[tuple[int, Entry, dict, str, dict]] = []
+    done = 0
+    for i, (e, p) in enumerate(work):
+        t0 = time.perf_counter()
+        key, files = entry_key(e, p, root)
+        hit = cache.get(key, root) if use_cache else None
+        if hit is not None:
+            base = dict(hit["result"])
+            # the entry's interpretation may have changed (expect) without changing the verdict
+            base.update(name=e.name, params=dict(p), label=label(e.name, p), expect=e.expect,
+                        require=e.require, engine=e.engine, files=list(e.files), spec=e.spec)
+            records[i] = _finish(base, cached=True, seconds=time.perf_counter() - t0, key=key,
+                                 files=files)
+            done += 1
+            if progress:
+                progress("done", done, total, records[i], label(e.name, p))
+        else:
+            pending.append((i, e, p, key, files))
+
+    def store(i: int, record: dict, key: str, files: dict) -> None:
+        nonlocal done
+        records[i] = _finish(record, cached=False, seconds=record["checked_seconds"], key=key,
+                             files=files)
+        # a fresh definite verdict is recorded even with use_cache=False: that run re-checked it
+        try:
+            cache.put(key, files, record)
+        except OSError:
+            pass  # a read-only checkout still gets its verdicts, just not cached
+        done += 1
+        if progress:
+            progress("done", done, total, records[i], records[i]["label"])
+
+    if jobs == 1 or len(pending) <= 1:
+        for i, e, p, key, files in pending:
+            if progress:
+                progress("start", done, total, None, label(e.name, p))
+            store(i, check_entry(e, p, root), key, files)
+    else:
+        with ProcessPoolExecutor(max_workers=min(jobs, len(pending))) as pool:
+            futures = {pool.submit(check_entry, e, p, str(root)): (i, key, files)
+                       for i, e, p, key, files in pending}
+            for fut in as_completed(futures):
+                i, key, files = futures[fut]
+                store(i, fut.result(), key, files)
+    final = [r for r in records if r is not None]
+    counts: dict[str, int] = {}
+    for r in final:
+        counts[r["status"]] = counts.get(r["status"], 0) + 1
+    return RunSummary(str(manifest.path), final, time.perf_counter() - started, jobs, use_cache,
+                      counts=counts)

@@ -1,0 +1,249 @@
+"""Reports of a manifest run (``verify run``): a terminal table, JUnit XML, a JSON summary and a
+Markdown summary short enough for a pull-request comment.
+
+Every function takes a ``verify.gate.RunSummary``; a record is one entry at one parameter point
+(see ``verify.gate.check_entry`` for its fields).
+"""
+
+from __future__ import annotations
+
+import json
+import re
+import xml.etree.ElementTree as ET
+from typing import Any
+
+from verify.result import SCOPE_NOTE
+
+JSON_FORMAT = "verify-run/1"
+#: the Markdown summary lists every row up to this many; past it, only rows that need attention
+MARKDOWN_ROWS = 30
+
+_VERDICT_WORD = {"proven": "PROVEN", "exhaustive": "EXHAUSTIVE", "tested": "TESTED",
+                 "fail": "FAIL", "inconclusive": "INCONCLUSIVE", "error": "ERROR"}
+_EXIT_MEANING = {0: "every entry met its manifest", 1: "a result contradicts the manifest",
+                 2: "bad input: an entry could not be read", 3: "inconclusive or weaker than required"}
+
+
+def engines_text(record: dict[str, Any]) -> str:
+    names = [e["engine"] for e in record.get("engines", []) if e.get("status") != "skipped"]
+    return "+".join(names) or "-"
+
+
+def params_text(params: dict[str, int]) -> str:
+    return " ".join(f"{k}={v}" for k, v in params.items()) or "-"
+
+
+def counterexample_text(record: dict[str, Any]) -> str | None:
+    """One line: the inputs, then each wrong output with expected and actual values."""
+    cex = record.get("counterexample")
+    if not cex:
+        return None
+    ins = " ".join(f"{k}={_hex(v)}" for k, v in cex["inputs"].items())
+    wrong = cex.get("wrong_bits") or {}
+    outs = []
+    for port, want in cex["expected"].items():
+        if port in wrong:
+            got = cex["actual"].get(port)
+            bits = ",".join(str(b) for b in wrong[port])
+            outs.append(f"{port} expected {_hex(want)} got {_hex(got)} (wrong bits {bits})")
+    return f"{ins}: " + "; ".join(outs)
+
+
+def _hex(v: int | None) -> str:
+    if v is None:
+        return "?"
+    return str(v) if v < 10 else f"{v:#x}"
+
+
+def problem_text(record: dict[str, Any]) -> str | None:
+    """Why a record does not meet its entry, in one line (None when it does)."""
+    status = record["status"]
+    if record["ok"]:
+        return None
+    if status == "error":
+        return record.get("error") or "could not be read"
+    if status == "counterexample":
+        return "counterexample " + (counterexample_text(record) or "")
+    if status == "unexpected pass":
+        return (f"expected a counterexample (expect = \"fail\") but the design is "
+                f"{record['verdict']}: {record.get('coverage', '')}")
+    if status == "weaker than required":
+        return f"{record.get('coverage', '')}; require = \"complete\" asks for proven or exhaustive"
+    if record["expect"] == "fail":
+        return "expected a counterexample, none was established: " + _evidence(record)
+    return _evidence(record)
+
+
+def _evidence(record: dict[str, Any]) -> str:
+    parts = [f"{e['engine']}: {e['evidence']}" for e in record.get("engines", [])
+             if e.get("status") in ("inconclusive", "skipped")]
+    return "; ".join(parts) or record.get("coverage", "no engine established the spec")
+
+
+def _time(record: dict[str, Any]) -> str:
+    return "cached" if record["cached"] else f"{record['seconds']:.2f} s"
+
+
+def headline(summary) -> str:
+    n = len(summary.records)
+    parts = ", ".join(f"{c} {s}" for s, c in summary.counts.items())
+    cached = sum(1 for r in summary.records if r["cached"])
+    extra = f", {cached} from the cache" if cached else ""
+    return (f"{n} check{'s' if n != 1 else ''}: {parts}{extra}; {summary.seconds:.2f} s; "
+            f"exit {summary.exit_code} ({_EXIT_MEANING[summary.exit_code]})")
+
+
+# ---- the terminal table -----------------------------------------------------------------------
+
+def render_table(summary) -> str:
+    rows = [("design", "params", "verdict", "engines", "time", "result")]
+    for r in summary.records:
+        mark = "ok" if r["ok"] else r["status"].upper()
+        if r["ok"] and r["expect"] == "fail":
+            mark = "ok (expected fail)"
+        rows.append((r["name"], params_text(r["params"]), _VERDICT_WORD.get(r["verdict"], r["verdict"]),
+                     engines_text(r), _time(r), mark))
+    widths = [max(len(row[i]) for row in rows) for i in range(len(rows[0]))]
+    lines = []
+    for n, row in enumerate(rows):
+        lines.append("  ".join(cell.ljust(w) if i != 4 else cell.rjust(w)
+                               for i, (cell, w) in enumerate(zip(row, widths))).rstrip())
+        if n == 0:
+            lines.append("  ".join("-" * w for w in widths))
+    problems = [(r["label"], problem_text(r)) for r in summary.records if not r["ok"]]
+    if problems:
+        lines.append("")
+        for name, text in problems:
+            lines.append(f"{name}: {text}")
+    lines.append("")
+    lines.append(headline(summary))
+    return "\n".join(lines)
+
+
+# ---- JSON ---------------------------------------------------------------------------------
+
+def render_json(summary) -> dict[str, Any]:
+    """The JSON summary: ``entries`` holds one object per design and parameter point."""
+    entries = []
+    for r in summary.records:
+        entries.append({
+            "name": r["name"], "params": r["params"], "ok": r["ok"], "verdict": r["verdict"],
+            "status": r["status"], "exit_code": r["exit_code"], "cached": r["cached"],
+            "seconds": round(r["seconds"], 6), "checked_seconds": round(r["checked_seconds"], 6),
+            "expect": r["expect"], "require": r["require"], "engine": r["engine"],
+            "engines": r["engines"], "coverage": r.get("coverage"), "spec": r["spec"],
+            "files": r["files"], "file_hashes": r.get("file_hashes", {}),
+            "design_hash": r.get("design_hash"), "cache_key": r.get("key"),
+            "counterexample": r.get("counterexample"), "error": r.get("error"),
+        })
+    return {"format": JSON_FORMAT, "tool_version": summary.tool_version,
+            "manifest": summary.manifest, "ok": summary.ok, "exit_code": summary.exit_code,
+            "counts": summary.counts, "seconds": round(summary.seconds, 6), "jobs": summary.jobs,
+            "cache_used": summary.cache_used, "entries": entries, "note": SCOPE_NOTE}
+
+
+def dumps_json(summary) -> str:
+    return json.dumps(render_json(summary), indent=2) + "\n"
+
+
+# ---- JUnit XML ----------------------------------------------------------------------------
+
+_BAD_XML = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ud800-\udfff\ufffe\uffff]")
+
+
+def _x(text: Any) -> str:
+    """Text XML 1.0 can hold (ElementTree escapes <, & and quotes; control characters go)."""
+    return _BAD_XML.sub("?", str(text))
+
+
+def render_junit(summary, suite_name: str | None = None) -> str:
+    """JUnit XML: one test case per design and parameter point.
+
+    A counterexample is a ``failure`` whose message is the counterexample; an inconclusive or
+    weaker-than-required result and an unexpected pass are failures too (the gate is red), with
+    their own ``type``; an entry that could not be read is an ``error``.
+    """
+    failures = sum(1 for r in summary.records if r["exit_code"] in (1, 3))
+    errors = sum(1 for r in summary.records if r["exit_code"] == 2)
+    total_time = f"{summary.seconds:.3f}"
+    root = ET.Element("testsuites", name="verify run", tests=str(len(summary.records)),
+                      failures=str(failures), errors=str(errors), time=total_time)
+    suite = ET.SubElement(root, "testsuite", name=_x(suite_name or summary.manifest),
+                          tests=str(len(summary.records)), failures=str(failures),
+                          errors=str(errors), skipped="0", time=total_time)
+    props = ET.SubElement(suite, "properties")
+    ET.SubElement(props, "property", name="tool_version", value=_x(summary.tool_version))
+    ET.SubElement(props, "property", name="exit_code", value=str(summary.exit_code))
+    for r in summary.records:
+        case = ET.SubElement(suite, "testcase", classname=_x(f"verify.{r['name']}"),
+                             name=_x(r["label"]), time=f"{r['seconds']:.3f}")
+        problem = problem_text(r)
+        status = r["status"]
+        if r["exit_code"] == 2:
+            el = ET.SubElement(case, "error", type="input", message=_x(problem))
+            el.text = _x(problem)
+        elif r["exit_code"] in (1, 3):
+            kind = {"counterexample": "counterexample", "unexpected pass": "unexpected-pass",
+                    "weaker than required": "weaker-than-required"}.get(status, "inconclusive")
+            message = counterexample_text(r) if status == "counterexample" else problem
+            el = ET.SubElement(case, "failure", type=kind, message=_x(message))
+            el.text = _x(_details(r))
+        out = ET.SubElement(case, "system-out")
+        out.text = _x(_details(r))
+    ET.indent(root)
+    return '<?xml version="1.0" encoding="utf-8"?>\n' + ET.tostring(root, encoding="unicode") + "\n"
+
+
+def _details(r: dict[str, Any]) -> str:
+    lines = [f"verdict: {r['verdict']}{' (from the cache)' if r['cached'] else ''}",
+             f"meets the manifest: {'yes' if r['ok'] else 'no'} ({r['status']})",
+             f"spec: {r['spec']}", f"files: {', '.join(r['files'])}"]
+    if r.get("coverage"):
+        lines.append(f"coverage: {r['coverage']}")
+    for e in r.get("engines", []):
+        lines.append(f"  {e['engine']}: {e['status']} in {e['seconds']:.3f} s: {e['evidence']}")
+    cex = counterexample_text(r)
+    if cex:
+        lines.append(f"counterexample: {cex}")
+    if r.get("error"):
+        lines.append(f"error: {r['error']}")
+    return "\n".join(lines)
+
+
+# ---- Markdown -----------------------------------------------------------------------------
+
+def _md(text: str) -> str:
+    return str(text).replace("\\", "\\\\").replace("|", "\\|").replace("\n", " ")
+
+
+def render_markdown(summary) -> str:
+    """A short Markdown summary for a pull-request comment."""
+    mark = "✅" if summary.ok else "❌"
+    lines = [f"### {mark} adder-verify: {_md(headline(summary))}", ""]
+    records = summary.records
+    shown = records if len(records) <= MARKDOWN_ROWS else [r for r in records if not r["ok"]]
+    if shown:
+        lines.append("| | design | params | verdict | engines | time |")
+        lines.append("|---|---|---|---|---|---|")
+        for r in shown:
+            sign = "✅" if r["ok"] else "❌"
+            verdict = r["verdict"] + (" (expected)" if r["ok"] and r["expect"] == "fail" else "")
+            if not r["ok"]:
+                verdict = f"**{verdict}**"
+            lines.append(f"| {sign} | `{_md(r['name'])}` | {_md(params_text(r['params']))} | "
+                         f"{verdict} | {_md(engines_text(r))} | {_time(r)} |")
+    hidden = len(records) - len(shown)
+    if hidden:
+        lines.append("")
+        lines.append(f"{hidden} more check{'s' if hidden != 1 else ''} met the manifest "
+                     f"(see the JSON summary).")
+    problems = [r for r in records if not r["ok"]]
+    if problems:
+        lines.append("")
+        for r in problems[:MARKDOWN_ROWS]:
+            lines.append(f"- `{_md(r['label'])}`: {_md(problem_text(r) or '')}")
+        if len(problems) > MARKDOWN_ROWS:
+            lines.append(f"- ... and {len(problems) - MARKDOWN_ROWS} more")
+    lines.append("")
+    lines.append(f"<sub>{_md(SCOPE_NOTE)}</sub>")
+    return "\n".join(lines) + "\n"
