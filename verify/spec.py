@@ -1479,7 +1479,7 @@ def infer(design: Netlist) -> Spec:
     terms = f"{_name_text(a.name)} + {_name_text(b.name)}" + (f" + {_name_text(cin.name)}" if cin else "")
     if full:
         if len(outs) > 1:
-            raise refuse(f"an {n + 1}-bit result ({_plist(full)}) and other outputs "
+            raise refuse(f"a result of {n + 1} bits ({_plist(full)}) and other outputs "
                          f"({_plist([p for p in outs if p is not full[0]])})")
         return parse(f"{_name_text(full[0].name)} = {terms}", design, inferred=True)
 
