@@ -1,0 +1,214 @@
+"""Verilog / SystemVerilog reader: pyslang parses and elaborates, verilog_translate makes gates.
+
+``load(paths, top=, params=, include_dirs=, defines=)`` returns a validated ``Netlist`` whose ports
+are the top module's ports. Bit 0 of a port is the least significant bit of its value, i.e. the
+*right-hand* index of the declared range: for ``input [7:0] a`` bit 0 is ``a[0]``, for
+``input [0:7] a`` bit 0 is ``a[7]`` (Verilog's own reading of the vector as a number).
+
+Syntax trees are parsed once per (files, defines, include folders) and reused while the files are
+unchanged, so a width sweep (the same files with ``params`` W=8, 16, 32...) only re-elaborates.
+"""
+
+from __future__ import annotations
+
+import os
+from pathlib import Path
+from typing import Mapping, Sequence
+
+from verify.errors import InputError
+from verify.netlist import Netlist
+
+_TREE_CACHE: dict[tuple, list] = {}
+_TREE_CACHE_MAX = 16
+
+
+def _import_pyslang():
+    try:
+        import pyslang  # noqa: F401
+    except ImportError:  # pragma: no cover - pyslang is a dependency
+        raise InputError("reading Verilog needs the pyslang package (pip install pyslang)") from None
+    return pyslang
+
+
+def _file_key(paths: Sequence[Path]) -> tuple:
+    key = []
+    for p in paths:
+        try:
+            st = p.stat()
+        except OSError:
+            raise InputError("no such file", str(p)) from None
+        key.append((str(p.resolve()), st.st_mtime_ns, st.st_size))
+    return tuple(key)
+
+
+def _define_strings(defines: Mapping[str, str | None]) -> list[str]:
+    out = []
+    for name, value in defines.items():
+        if not name or not (name[0].isalpha() or name[0] == "_") or \
+                not all(c.isalnum() or c in "_$" for c in name):
+            raise InputError(f"-D {name!r}: a macro name is a Verilog identifier", "-D")
+        out.append(name if value is None else f"{name}={value}")
+    return out
+
+
+def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
+           defines: Mapping[str, str | None]):
+    """(source manager, syntax trees), cached while the files and options are unchanged."""
+    for d in include_dirs:
+        if not Path(d).is_dir():
+            raise InputError("include folder does not exist", f"-I {d}")
+    key = (_file_key(paths), tuple(str(Path(d).resolve()) for d in include_dirs),
+           tuple(sorted((k, v) for k, v in defines.items())))
+    hit = _TREE_CACHE.get(key)
+    if hit is not None:
+        return hit
+    from pyslang import parsing, syntax
+    sm = pyslang.SourceManager()
+    pp = parsing.PreprocessorOptions()
+    pp.predefines = _define_strings(defines)
+    pp.additionalIncludePaths = [str(Path(d)) for d in include_dirs]
+    bag = pyslang.Bag([pp])
+    trees = []
+    for p in paths:
+        try:
+            trees.append(syntax.SyntaxTree.fromFile(str(p), sm, bag))
+        except Exception as e:  # pyslang raises plain exceptions for unreadable files
+            raise InputError(f"cannot read the file: {e}", str(p)) from None
+    if len(_TREE_CACHE) >= _TREE_CACHE_MAX:
+        _TREE_CACHE.pop(next(iter(_TREE_CACHE)))
+    _TREE_CACHE[key] = [sm, trees]
+    return _TREE_CACHE[key]
+
+
+class Locator:
+    """Source locations as ``file:line:col`` using the paths the user gave."""
+
+    def __init__(self, sm, paths: Sequence[Path]):
+        self.sm = sm
+        self.names = {str(p.resolve()): str(p) for p in paths}
+        self._cache: dict[int, str] = {}
+
+    def file(self, loc) -> str:
+        buf = loc.buffer
+        bid = buf.id if hasattr(buf, "id") else hash(buf)
+        name = self._cache.get(bid)
+        if name is None:
+            try:
+                full = str(self.sm.getFullPath(buf))
+            except Exception:  # pragma: no cover - macro buffers and the like
+                full = str(self.sm.getFileName(loc))
+            if not full:
+                full = str(self.sm.getFileName(loc)) or "<verilog>"
+            name = self.names.get(str(Path(full).resolve()) if full and not full.startswith("<")
+                                  else full, full)
+            if name == full and full.startswith(os.getcwd() + os.sep):
+                name = os.path.relpath(full)
+            self._cache[bid] = name
+        return name
+
+    def where(self, loc) -> str | None:
+        if loc is None:
+            return None
+        try:
+            loc = self.sm.getFullyOriginalLoc(loc)
+            line = self.sm.getLineNumber(loc)
+            if line == 0:
+                return None
+            return f"{self.file(loc)}:{line}:{self.sm.getColumnNumber(loc)}"
+        except Exception:  # pragma: no cover - a location pyslang cannot map
+            return None
+
+    def line(self, loc) -> str | None:
+        w = self.where(loc)
+        return w.rsplit(":", 1)[0] if w else None
+
+
+def _diagnostics(pyslang, comp, sm, locator: Locator) -> None:
+    """Raise the first error slang reports (with a count of the rest); warnings pass."""
+    engine = pyslang.DiagnosticEngine(sm)
+    errors = []
+    for d in comp.getAllDiagnostics():
+        sev = engine.getSeverity(d.code, d.location)
+        if sev in (pyslang.DiagnosticSeverity.Error, pyslang.DiagnosticSeverity.Fatal) or d.isError():
+            errors.append(d)
+    if not errors:
+        return
+    d = errors[0]
+    msg = engine.formatMessage(d)
+    more = len(errors) - 1
+    if more:
+        msg += f" (and {more} more error{'s' if more > 1 else ''})"
+    raise InputError(msg, locator.where(d.location) or locator.names.get(next(iter(locator.names)), None))
+
+
+def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int]):
+    from pyslang import ast
+    opts = ast.CompilationOptions()
+    if top:
+        opts.topModules = {top}
+    overrides = []
+    for name, value in params.items():
+        if isinstance(value, bool) or not isinstance(value, int):
+            raise InputError(f"--param {name}: value must be a whole number, got {value!r}", "--param")
+        overrides.append(f"{name}={value}")
+    opts.paramOverrides = overrides
+    comp = ast.Compilation(pyslang.Bag([opts]))
+    for t in trees:
+        comp.addSyntaxTree(t)
+    return comp
+
+
+def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | None = None,
+         include_dirs: list[str] | None = None,
+         defines: dict[str, str | None] | None = None) -> Netlist:
+    """Elaborate the Verilog files and translate the top module into a validated Netlist."""
+    pyslang = _import_pyslang()
+    from verify.formats.verilog_translate import Translator
+    paths = [Path(p) for p in paths]
+    params = dict(params or {})
+    sm, trees = _parse(pyslang, paths, list(include_dirs or []), dict(defines or {}))
+    locator = Locator(sm, paths)
+    comp = _elaborate(pyslang, trees, top, params)
+    root = comp.getRoot()
+    _diagnostics(pyslang, comp, sm, locator)
+    tops = list(root.topInstances)
+    first = str(paths[0])
+    if top:
+        tops = [t for t in tops if t.name == top]
+        if not tops:
+            defs = sorted({d.name for d in _definitions(comp)})
+            raise InputError(f"no module named '{top}' (modules: {', '.join(defs) or 'none'})", first)
+    if not tops:
+        raise InputError("no module found in the given files", first)
+    if len(tops) > 1:
+        names = ", ".join(sorted(t.name for t in tops))
+        raise InputError(f"several candidate top modules ({names}); choose one with --top NAME",
+                         first)
+    inst = tops[0]
+    _check_params(inst, params, locator)
+    return Translator(locator, origin=", ".join(str(p) for p in paths)).run(inst)
+
+
+def _definitions(comp):
+    try:
+        return [d for d in comp.getDefinitions() if getattr(d, "name", None)]
+    except Exception:  # pragma: no cover - older pyslang
+        return []
+
+
+def _check_params(inst, params: Mapping[str, int], locator: Locator) -> None:
+    """Every --param must name a parameter of the top module that can be overridden."""
+    from pyslang import ast
+    known = {}
+    for m in inst.body:
+        if m.kind == ast.SymbolKind.Parameter:
+            known[m.name] = m
+    for name in params:
+        sym = known.get(name)
+        if sym is None:
+            listed = ", ".join(n for n, s in known.items() if not s.isLocalParam) or "none"
+            raise InputError(f"--param {name}: module '{inst.name}' has no parameter '{name}' "
+                             f"(parameters: {listed})", locator.where(inst.location))
+        if sym.isLocalParam:
+            raise InputError(f"--param {name}: '{name}' is a localparam of '{inst.name}' and "
+                             f"cannot be overridden", locator.where(sym.location))
