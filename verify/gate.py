@@ -427,11 +427,12 @@ Progress = Callable[[str, int, int, "dict[str, Any] | None", str], None]
 
 def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cache: bool = True,
         cache_dir: str | Path | None = None, progress: Progress | None = None,
-        only: Iterable[str] | None = None) -> RunSummary:
+        only: Iterable[str] | None = None, point: dict[str, int] | None = None) -> RunSummary:
     """Check every entry of ``manifest`` at every parameter point.
 
     Records come back in manifest order whatever order workers finish in, so ``jobs`` changes the
-    time taken, never the results. ``only`` limits the run to the named entries.
+    time taken, never the results. ``only`` limits the run to the named entries, ``point`` to one
+    parameter point of them.
     """
     from verify.cache import CACHE_DIR, Cache
 
@@ -450,7 +451,7 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
                 raise InputError(f"no design named '{n}' in the manifest", str(manifest.path))
         entries = [e for e in entries if e.name in wanted]
     cache = Cache(Path(cache_dir) if cache_dir is not None else root / CACHE_DIR)
-    work = [(e, p) for e in entries for p in e.points()]
+    work = [(e, p) for e in entries for p in e.points() if point is None or p == point]
     total = len(work)
     records: list[dict[str, Any] | None] = [None] * total
     pending: list[tuple[int, Entry, dict, str, dict]] = []
