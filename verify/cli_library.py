@@ -1,0 +1,105 @@
+"""``verify generate`` and ``verify stats``: thin click commands over verify.architectures and
+verify.stats. ``register(main)`` adds them to the main command group."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import click
+
+from verify.errors import InputError
+
+
+def _fail(e: InputError) -> None:
+    click.echo(f"error: {e}", err=True)
+    raise click.exceptions.Exit(2)
+
+
+def _architecture_table() -> str:
+    from verify.architectures import ARCHITECTURES, describe_params
+    rows = [(name, describe_params(name), a.summary) for name, a in ARCHITECTURES.items()]
+    w1 = max(len(r[0]) for r in rows)
+    w2 = max(len(r[1]) for r in rows)
+    lines = [f"{'architecture':<{w1}}  {'parameters':<{w2}}  structure"]
+    lines += [f"{n:<{w1}}  {p:<{w2}}  {s}" for n, p, s in rows]
+    return "\n".join(lines)
+
+
+@click.command("generate")
+@click.argument("arch", required=False, metavar="ARCH")
+@click.option("--width", "-w", type=int, help="Operand width in bits (1 or more).")
+@click.option("--no-cin", is_flag=True, help="Leave out the carry-in port.")
+@click.option("--no-cout", is_flag=True, help="Leave out the carry-out port.")
+@click.option("--overflow", is_flag=True, help="Add the signed-overflow output v.")
+@click.option("--block", type=int, help="Block size (carry-lookahead, carry-skip, carry-select).")
+@click.option("--levels", type=int, help="Lookahead levels (carry-lookahead).")
+@click.option("--sizes", help="Block sizes LSB first, e.g. 2,4,4,2; or 'variable' (carry-skip), "
+              "'growing' (carry-select).")
+@click.option("--name", help="Design (module) name. Default: the architecture and width.")
+@click.option("--format", "fmt", type=click.Choice(["json", "verilog"]), default="json",
+              show_default=True, help="Output format.")
+@click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write here, not to stdout.")
+@click.option("--list", "list_", is_flag=True, help="List the architectures and their parameters.")
+def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, name, fmt, output,
+                 list_):
+    """Write a reference adder ARCH (e.g. kogge-stone) as a JSON netlist or structural Verilog.
+
+    Ports: a, b (WIDTH bits), cin; sum (WIDTH bits), cout; v with --overflow.
+    """
+    if list_ or arch is None:
+        click.echo(_architecture_table())
+        if arch is None and not list_:
+            click.echo("\nerror: name an architecture, e.g. 'verify generate kogge-stone --width 16'",
+                       err=True)
+            raise click.exceptions.Exit(2)
+        return
+    from verify.architectures import generate
+    try:
+        if width is None:
+            raise InputError("--width is required (operand width in bits)")
+        params = {k: v for k, v in (("block", block), ("levels", levels), ("sizes", sizes))
+                  if v is not None}
+        netlist = generate(arch, width, cin=not no_cin, cout=not no_cout, overflow=overflow,
+                           name=name, **params)
+    except InputError as e:
+        _fail(e)
+    if fmt == "json":
+        from verify.formats.json_netlist import dumps
+        text = dumps(netlist)
+    else:
+        from verify.formats.verilog_writer import dumps
+        text = dumps(netlist)
+    if output:
+        try:
+            Path(output).write_text(text, encoding="utf-8")
+        except OSError as e:
+            _fail(InputError(f"cannot write: {e.strerror}", output))
+        click.echo(f"wrote {output}: {netlist.summary()}", err=True)
+    else:
+        click.echo(text, nl=False)
+
+
+@click.command("stats")
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@click.option("--top", help="Top module (Verilog).")
+@click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")
+def stats_cmd(paths, top, as_json):
+    """Gate counts, logic depth, the longest path, fanout and prefix nodes of a design."""
+    from verify.formats import load
+    from verify.stats import format_text, stats
+    try:
+        netlist = load(list(paths), top=top)
+    except InputError as e:
+        _fail(e)
+    figures = stats(netlist)
+    if as_json:
+        click.echo(json.dumps(figures, indent=2))
+    else:
+        click.echo(format_text(figures))
+
+
+def register(main: click.Group) -> None:
+    """Add ``generate`` and ``stats`` to the main command group."""
+    main.add_command(generate_cmd)
+    main.add_command(stats_cmd)
