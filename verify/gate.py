@@ -343,6 +343,7 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
 
     root = Path(root)
     started = time.perf_counter()
+    _forget_stale_trees(entry, root)
     base = {"name": entry.name, "params": dict(point), "label": label(entry.name, point),
             "files": list(entry.files), "spec": entry.spec, "require": entry.require,
             "expect": entry.expect, "engine": entry.engine}
@@ -365,6 +366,34 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
             "coverage": result.coverage, "counterexample": data.get("counterexample"),
             "design_hash": result.design_hash, "design": data["design"],
             "checked_seconds": result.seconds}
+
+
+_SEEN_DEPS: dict[tuple[str, ...], dict[str, str]] = {}
+
+
+def _forget_stale_trees(entry: Entry, root: Path) -> None:
+    """Drop the Verilog reader's parsed trees when a file they rest on changed in this process.
+
+    The reader reuses syntax trees while the listed files' size and time are unchanged; an
+    included file that changed would not be seen by a long-lived process (the pytest plugin, a
+    Python loop over commits). Comparing every dependency's hash with the last one seen here
+    keeps parameter sweeps fast and never checks a stale design.
+    """
+    if not any(Path(f).suffix in _VERILOG for f in entry.files):
+        return
+    try:
+        from verify.formats import verilog as reader
+    except ImportError:  # pragma: no cover - no Verilog reader in this build
+        return
+    trees = getattr(reader, "_TREE_CACHE", None)
+    if not isinstance(trees, dict):
+        return
+    from verify.cache import file_hashes
+    ident = tuple(str((root / f).resolve()) for f in entry.files)
+    now = file_hashes(entry_files(entry, root), root)
+    if _SEEN_DEPS.get(ident, now) != now:
+        trees.clear()
+    _SEEN_DEPS[ident] = now
 
 
 def _finish(record: dict[str, Any], *, cached: bool, seconds: float, key: str | None,
