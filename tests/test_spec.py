@@ -146,6 +146,76 @@ def test_precedence_matches_python_where_the_languages_agree(text, vals):
     assert spec.evaluate(env)["y"] == want % (1 << 64)
 
 
+_ALL_BINARY = ["||", "&&", "|", "^", "~^", "^~", "&", "==", "!=", "<", "<=", ">", ">=",
+               "<<", ">>", "<<<", ">>>", "+", "-", "*"]
+_ALL_UNARY = ["+", "-", "!", "~", "&", "~&", "|", "~|", "^", "~^"]
+
+
+@st.composite
+def verilog_expr(draw, depth=3):
+    kind = draw(st.sampled_from(["atom", "unary", "binary", "binary", "paren", "cond"]
+                                if depth > 0 else ["atom", "unary"]))
+    if kind == "atom":
+        return draw(st.sampled_from(["a", "b", "c", "d", "1", "4'd3"]))
+    if kind == "unary":
+        inner = draw(verilog_expr(depth - 1)) if depth > 0 else draw(st.sampled_from(["a", "b"]))
+        inner = inner if inner[0].isalnum() else f"({inner})"
+        return draw(st.sampled_from(_ALL_UNARY)) + inner
+    if kind == "binary":
+        return f"{draw(verilog_expr(depth - 1))} {draw(st.sampled_from(_ALL_BINARY))} " \
+               f"{draw(verilog_expr(depth - 1))}"
+    if kind == "paren":
+        return f"({draw(verilog_expr(depth - 1))})"
+    return f"{draw(verilog_expr(depth - 1))} ? {draw(verilog_expr(depth - 1))} : " \
+           f"{draw(verilog_expr(depth - 1))}"
+
+
+def _ours_parenthesized(node) -> str:
+    from verify import spec as sp
+    if isinstance(node, sp.Binary):
+        return f"({_ours_parenthesized(node.left)} {node.op} {_ours_parenthesized(node.right)})"
+    if isinstance(node, sp.Unary):
+        return f"({node.op}{_ours_parenthesized(node.arg)})"
+    if isinstance(node, sp.Ternary):
+        return (f"({_ours_parenthesized(node.cond)} ? {_ours_parenthesized(node.then)} : "
+                f"{_ours_parenthesized(node.other)})")
+    return node.name if isinstance(node, sp.Name) else node.text
+
+
+def _slang_parenthesized(node) -> str:
+    kind = type(node).__name__
+    same = {"^~": "~^"}
+    if kind == "BinaryExpressionSyntax":
+        op = node.operatorToken.valueText
+        return f"({_slang_parenthesized(node.left)} {same.get(op, op)} {_slang_parenthesized(node.right)})"
+    if kind == "PrefixUnaryExpressionSyntax":
+        op = node.operatorToken.valueText
+        return f"({same.get(op, op)}{_slang_parenthesized(node.operand)})"
+    if kind == "ParenthesizedExpressionSyntax":
+        return _slang_parenthesized(node.expression)
+    if kind == "ConditionalExpressionSyntax":
+        return (f"({_slang_parenthesized(node.predicate.conditions[0].expr)} ? "
+                f"{_slang_parenthesized(node.left)} : {_slang_parenthesized(node.right)})")
+    if kind == "IdentifierNameSyntax":
+        return node.identifier.valueText
+    if kind in ("LiteralExpressionSyntax", "IntegerVectorExpressionSyntax"):
+        return str(node).strip()
+    raise AssertionError(kind)  # pragma: no cover
+
+
+@settings(max_examples=300, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(verilog_expr())
+def test_parse_tree_matches_an_independent_verilog_parser(text):
+    from pyslang import syntax
+    from verify.spec import _Parser
+    # Source: pyslang (slang), a standards-following SystemVerilog parser, parsing the same text.
+    tree = syntax.SyntaxTree.fromText(f"module m; assign y = {text}; endmodule")
+    assert not list(tree.diagnostics), text
+    theirs = _slang_parenthesized(tree.root.members[0].assignments[0].right)
+    ours = _ours_parenthesized(_Parser(f"y = {text}").equations()[0].rhs)
+    assert ours == theirs
+
+
 @pytest.mark.parametrize("text, verilog_meaning", [
     # IEEE 1364-2005 table 5-4 (from memory): == binds tighter than &, ^, |; Python compares last
     ("a == b & c", "(a == b) & c"),
@@ -562,3 +632,28 @@ def test_infer_refuses_when_the_ports_do_not_tell(ins, outs, fragment):
     assert msg.startswith("spec: cannot infer a spec for odd: ")
     assert fragment in msg, msg
     assert "--spec" in msg
+
+
+# ---- lexical details ------------------------------------------------------------------------------
+
+def test_comments_trailing_semicolons_and_line_breaks_are_accepted():
+    spec = parse("// the Larkspur accumulator lane\n{cout, sum} = a + b /* operands */ + cin;\n;", RCA4)
+    assert spec.text == "{cout, sum} = a + b + cin"
+    assert spec.evaluate({"a": 9, "b": 8, "cin": 1}) == {"sum": 2, "cout": 1}  # 18 = 0b1_0010
+
+
+def test_escaped_names_reach_ports_with_unusual_names():
+    d = design({"lane.a": 4, "lane.b": 4}, {"lane.s": 5})
+    spec = parse("\\lane.s  = \\lane.a + \\lane.b ", d)
+    assert spec.text == "\\lane.s  = \\lane.a  + \\lane.b "
+    assert parse(spec.text, d).evaluate({"lane.a": 15, "lane.b": 15}) == {"lane.s": 30}
+    assert infer(design({"x.a": 4, "x.b": 4}, {"x.s": 4})).text == "\\x.s  = \\x.a  + \\x.b "
+
+
+def test_case_equality_and_xnor_spellings_mean_the_same_without_x_or_z():
+    d = design({"a": 4, "b": 4}, {"e": 1, "n": 1, "x": 4})
+    one = parse("e = a === b; n = a !== b; x = a ^~ b", d)
+    two = parse("e = a == b; n = a != b; x = a ~^ b", d)
+    assert one.text == two.text
+    for v in vectors(d, 0, 0):
+        assert one.evaluate(v) == two.evaluate(v)
