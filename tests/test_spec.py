@@ -615,6 +615,8 @@ def test_inferred_adder_is_integer_addition():
     ({"a": 4, "b": 5}, {"s": 5}, "different widths (a[3:0], b[4:0])"),
     ({"a": 4}, {"s": 4}, "only one multi-bit input (a[3:0])"),
     ({"a": 4, "b": 4, "cin": 1, "m": 1}, {"s": 4}, "several 1-bit inputs (cin, m)"),
+    ({"a": 8, "b": 8, "m": 1}, {"y": 8}, "the 1-bit input m looks like a mode or control bit"),
+    ({"a": 8, "b": 8, "sub": 1}, {"y": 8, "co": 1}, "the 1-bit input sub looks like a mode"),
     ({"a": 1, "b": 1, "cin": 1, "d": 1}, {"s": 1}, "4 one-bit inputs"),
     ({"a": 1, "b": 1, "ci": 1, "cin": 1}, {"s": 1}, "4 one-bit inputs"),
     ({"a": 1, "ci": 1, "cin": 1}, {"s": 1, "c": 1}, "several inputs look like a carry-in (ci, cin)"),
@@ -657,3 +659,11 @@ def test_case_equality_and_xnor_spellings_mean_the_same_without_x_or_z():
     assert one.text == two.text
     for v in vectors(d, 0, 0):
         assert one.evaluate(v) == two.evaluate(v)
+
+
+def test_a_spec_survives_pickling_for_process_pools():
+    import pickle
+    spec = parse("{cout, sum} = a + b + cin", RCA4)
+    again = pickle.loads(pickle.dumps(spec))
+    assert again.text == spec.text
+    assert again.evaluate({"a": 7, "b": 9, "cin": 1}) == {"sum": 1, "cout": 1}  # 17 = 0b1_0001

@@ -1331,6 +1331,17 @@ class Spec:
     def __repr__(self) -> str:
         return f"Spec({self.text!r}{', inferred' if self.inferred else ''})"
 
+    # closures do not pickle: send the equations, compile again on arrival (process pools)
+    def __getstate__(self) -> dict[str, Any]:
+        state = dict(self.__dict__)
+        del state["_int"]
+        return state
+
+    def __setstate__(self, state: dict[str, Any]) -> None:
+        self.__dict__.update(state)
+        compiler = _IntCompiler()
+        self._int = [(compiler.visit(eq.rhs), eq.width, self._layout(eq)) for eq in self.equations]
+
     # ---- ground truth
     def evaluate(self, inputs: Mapping[str, int]) -> dict[str, int]:
         """Every output port's specified value (0 <= v < 2^width) for one input vector."""
@@ -1411,6 +1422,9 @@ _CARRY_IN = {"cin", "ci", "c_in", "carry_in", "carryin", "cin0", "cy_in", "cyin"
 _CARRY_OUT = {"cout", "co", "c_out", "carry_out", "carryout", "c", "carry", "cy", "cy_out"}
 _SUM = {"s", "sum", "sum0", "s0"}
 _OVERFLOW = {"v", "ovf", "overflow", "ov", "vout", "ovfl"}
+#: a lone 1-bit input with one of these names is not taken for a carry-in
+_CONTROL = {"m", "mode", "sub", "subtract", "add_sub", "addsub", "op", "sel", "select", "s",
+            "en", "enable", "neg", "inv", "invert", "ctrl", "cmd"}
 
 
 def _looks(name: str, names: set[str]) -> bool:
@@ -1454,6 +1468,9 @@ def infer(design: Netlist) -> Spec:
             raise refuse(f"several 1-bit inputs ({_plist(single)}) besides the operands "
                          f"{a.name}, {b.name}: cannot tell which is the carry-in")
         cin = single[0] if single else None
+        if cin is not None and not _looks(cin.name, _CARRY_IN) and _looks(cin.name, _CONTROL):
+            raise refuse(f"the 1-bit input {cin.name} looks like a mode or control bit, not a "
+                         "carry-in")
     else:
         n = 1
         if len(single) not in (2, 3):
