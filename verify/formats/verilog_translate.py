@@ -17,6 +17,7 @@ position k (counted from the right-hand bound of the declared range) holds bits 
 
 from __future__ import annotations
 
+import re
 from typing import Iterable
 
 from pyslang import ast
@@ -384,7 +385,7 @@ class Translator:
             if sym.kind not in (SK.Net, SK.Variable, SK.FormalArgument):
                 return None
             bits = self.sig_or_local(sym, e)
-            return (self.path, sym), bits, list(range(len(bits)))
+            return (self.path, sym), bits, range(len(bits))
         if k == EK.ElementSelect or k == EK.RangeSelect:
             base = self.ref(e.value)
             if base is None:
@@ -393,7 +394,10 @@ class Translator:
             sel = self.select_positions(e)
             if sel is None:
                 return None
-            return key, bits, [offs[i] if i is not None and 0 <= i < len(offs) else None for i in sel]
+            n = len(offs)
+            if isinstance(sel, range) and (not sel or (sel.start >= 0 and sel.stop <= n)):
+                return key, bits, offs[sel.start:sel.stop]  # a range of a range stays a range
+            return key, bits, [offs[i] if i is not None and 0 <= i < n else None for i in sel]
         return None
 
     def sig_or_local(self, sym, node) -> list[str]:
@@ -426,7 +430,7 @@ class Translator:
                 return None
             p = pos(i)
             if 0 <= p < n:
-                return list(range(p * ew, (p + 1) * ew))
+                return range(p * ew, (p + 1) * ew)
             return [None] * ew
         sk = e.selectionKind
         if sk == ast.RangeSelectionKind.Simple:
@@ -441,6 +445,8 @@ class Translator:
                 return None
             idx = [base, base + wd - 1] if sk == ast.RangeSelectionKind.IndexedUp else [base - wd + 1, base]
         plo, phi = sorted((pos(idx[0]), pos(idx[1])))
+        if 0 <= plo and phi < n:
+            return range(plo * ew, (phi + 1) * ew)
         out: list = []
         for p in range(plo, phi + 1):
             if 0 <= p < n:
@@ -501,6 +507,13 @@ class Translator:
         return self.fit(bits, width, sv.isSigned)
 
     def const_int(self, e) -> int | None:
+        v = self.try_const(e)
+        if v is not None:
+            t = e.type
+            w = t.bitWidth
+            if t.isSigned and w and v >> (w - 1) & 1:
+                v -= 1 << w
+            return v
         bits = self.ev(e)
         if not all(b in _CONSTS for b in bits):
             return None
@@ -511,6 +524,109 @@ class Translator:
         if e.type.isSigned and bits and bits[-1] == CONST1:
             v -= 1 << len(bits)
         return v
+
+    def try_const(self, e) -> int | None:
+        """The value of a constant integer expression as a w-bit pattern (quickly), else None.
+
+        Covers literals, parameters, genvars, loop variables holding constants and the usual
+        operators, with the node's own width and signedness (the same rules as the gates).
+        """
+        cv = e.constant
+        k = e.kind
+        t = e.type
+        if not t.isIntegral:
+            return None
+        w = t.bitWidth
+        mask = (1 << w) - 1
+        if cv is not None:
+            return _sv_int(cv.value if hasattr(cv, "value") else cv, mask)
+        if k == EK.IntegerLiteral:
+            return _sv_int(e.value, mask)
+        if k == EK.NamedValue:
+            sym = e.symbol
+            sk = sym.kind
+            if sk in (SK.Parameter, SK.EnumValue, SK.Genvar):
+                return _sv_int(sym.value.value, mask)
+            f = self.frame
+            if f is not None:
+                vals = f.env.get((self.path, sym))
+                if vals is not None and len(vals) == w and all(v in _CONSTS for v in vals):
+                    return _to_int(vals, False)
+            return None
+        if k == EK.Conversion:
+            op = e.operand
+            if not op.type.isIntegral:
+                return None
+            v = self.try_const(op)
+            if v is None:
+                return None
+            ow = op.type.bitWidth
+            if op.type.isSigned and ow and v >> (ow - 1) & 1:
+                v -= 1 << ow
+            if not t.isFourState or t.isFourState:
+                return v & mask
+        if k == EK.BinaryOp:
+            op = e.op
+            fn = _CONST_BINARY.get(op)
+            if fn is None:
+                return None
+            lv = self.try_const(e.left)
+            if lv is None:
+                return None
+            rv = self.try_const(e.right)
+            if rv is None:
+                return None
+            lt, rt = e.left.type, e.right.type
+            if op in _COMPARE or op in (BO.LogicalAnd, BO.LogicalOr):
+                signed = lt.isSigned and rt.isSigned
+                if signed:
+                    lv, rv = _signed(lv, lt.bitWidth), _signed(rv, rt.bitWidth)
+                return int(fn(lv, rv)) & mask
+            if op in (BO.Divide, BO.Mod):
+                if rv == 0:
+                    return None
+                if t.isSigned:
+                    lv, rv = _signed(lv, w), _signed(rv, w)
+                q = abs(lv) // abs(rv)
+                if (lv < 0) != (rv < 0):
+                    q = -q
+                return (q if op == BO.Divide else lv - q * rv) & mask
+            if op == BO.ArithmeticShiftRight and t.isSigned:
+                return (_signed(lv, w) >> min(rv, w)) & mask
+            if op in (BO.LogicalShiftLeft, BO.ArithmeticShiftLeft, BO.LogicalShiftRight,
+                      BO.ArithmeticShiftRight):
+                return fn(lv, min(rv, w + 1)) & mask
+            if op == BO.Power:
+                if t.isSigned:
+                    lv, rv = _signed(lv, w), _signed(rv, rt.bitWidth) if rt.isSigned else rv
+                if rv < 0:
+                    return None
+                return pow(lv, rv, 1 << w) if w else 0
+            return fn(lv, rv) & mask
+        if k == EK.UnaryOp:
+            op = e.op
+            v = self.try_const(e.operand)
+            if v is None:
+                return None
+            if op == UO.Minus:
+                return (-v) & mask
+            if op == UO.Plus:
+                return v & mask
+            if op == UO.BitwiseNot:
+                return (~v) & mask
+            if op == UO.LogicalNot:
+                return int(v == 0)
+            return None
+        if k == EK.ConditionalOp:
+            conds = list(e.conditions)
+            if len(conds) != 1 or conds[0].pattern is not None:
+                return None
+            c = self.try_const(conds[0].expr)
+            if c is None:
+                return None
+            v = self.try_const(e.left if c else e.right)
+            return None if v is None else v & mask
+        return None
 
     # ==== expressions ===================================================================
     def fit(self, bits: list[str], width: int, signed: bool) -> list[str]:
@@ -1316,7 +1432,8 @@ class Translator:
         count = 0
         while True:
             if s.stopExpr is not None:
-                c = self.truth(self.ev(s.stopExpr))
+                cv = self.try_const(s.stopExpr)
+                c = (CONST1 if cv else CONST0) if cv is not None else self.truth(self.ev(s.stopExpr))
                 if c not in _CONSTS:
                     raise self.fail("a for loop whose bound is not a constant (the loop condition "
                                     "depends on a signal)", s.stopExpr)
@@ -1438,13 +1555,16 @@ class Translator:
             out.source = g.source
             out.gate(g.op, *[r(i) for i in g.inputs], out=r(g.output))
         outputs = {pname: [r(pb) for pb in bits] for pname, bits in out_ports}
+        out.source = None
         try:
             return out.netlist(name, inputs, outputs, self.origin)
         except NetlistError as err:
             msg = err.message
             if msg.startswith("combinational loop"):
+                m = re.search(r"\(([^;()]+?)(?: [^;()]*)?[;)]", msg)
                 raise InputError(msg.replace("combinational loop", "combinational loop through "
-                                             "Verilog nets", 1), self.origin) from None
+                                             "Verilog nets", 1),
+                                 m.group(1) if m else self.origin) from None
             raise
 
 
@@ -1489,6 +1609,38 @@ def _literal_chars(x, w: int) -> list[str] | None:
         ext = chars[-1] if chars and signed else "0"
         chars = chars + [ext] * (w - len(chars))
     return chars[:w]
+
+
+def _sv_int(sv, mask: int) -> int | None:
+    """An SVInt without x/z bits as an unsigned pattern masked to ``mask``; None if unknown."""
+    if sv is None or not hasattr(sv, "bitWidth") or sv.hasUnknown:
+        return None
+    chars = _sv_chars(sv)
+    v = int("".join(reversed(chars)) or "0", 2)
+    if sv.isSigned and chars and chars[-1] == "1":
+        v -= 1 << len(chars)
+    return v & mask
+
+
+def _signed(v: int, w: int) -> int:
+    return v - (1 << w) if w and v >> (w - 1) & 1 else v
+
+
+_CONST_BINARY = {
+    BO.Add: lambda a, b: a + b, BO.Subtract: lambda a, b: a - b, BO.Multiply: lambda a, b: a * b,
+    BO.Divide: None, BO.Mod: None,
+    BO.BinaryAnd: lambda a, b: a & b, BO.BinaryOr: lambda a, b: a | b,
+    BO.BinaryXor: lambda a, b: a ^ b,
+    BO.Equality: lambda a, b: a == b, BO.Inequality: lambda a, b: a != b,
+    BO.CaseEquality: lambda a, b: a == b, BO.CaseInequality: lambda a, b: a != b,
+    BO.GreaterThanEqual: lambda a, b: a >= b, BO.GreaterThan: lambda a, b: a > b,
+    BO.LessThanEqual: lambda a, b: a <= b, BO.LessThan: lambda a, b: a < b,
+    BO.LogicalAnd: lambda a, b: bool(a) and bool(b), BO.LogicalOr: lambda a, b: bool(a) or bool(b),
+    BO.LogicalShiftLeft: lambda a, b: a << b, BO.ArithmeticShiftLeft: lambda a, b: a << b,
+    BO.LogicalShiftRight: lambda a, b: a >> b, BO.ArithmeticShiftRight: lambda a, b: a >> b,
+    BO.Power: None,
+}
+_CONST_BINARY = {k: (v if v is not None else (lambda a, b: 0)) for k, v in _CONST_BINARY.items()}
 
 
 def k_has_value(e) -> bool:
