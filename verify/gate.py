@@ -135,6 +135,9 @@ def load_manifest(path: str | Path | None = None) -> Manifest:
         msg = str(e)
         m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
         where = f"{path}:{m.group(1)}:{m.group(2)}" if m else str(path)
+        if not m and "(at end of document)" in msg:
+            where = f"{path}:{len(text.splitlines()) or 1}"
+            msg = msg.replace("(at end of document)", "(at the end of the file)")
         msg = re.sub(r"\s*\(at line \d+, column \d+\)", "", msg)
         raise InputError(f"not valid TOML: {msg}", where) from None
     heads, lines = _lines(text)
@@ -413,7 +416,7 @@ def status_word(record: dict[str, Any]) -> str:
     """What a record means against its entry: met, contradicted, weak or error."""
     code = record["exit_code"]
     if code == 0:
-        return "met (expected fail)" if record["expect"] == "fail" else "met"
+        return "met"
     if code == 2:
         return "error"
     if code == 1:
@@ -484,22 +487,35 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
     total = len(work)
     records: list[dict[str, Any] | None] = [None] * total
     pending: list[tuple[int, Entry, dict, str, dict]] = []
+    twins: dict[int, list[tuple[int, Entry, dict, dict]]] = {}  # first index -> same-key entries
+    first_of: dict[str, int] = {}
     done = 0
+
+    def reuse(i: int, result: dict, e: Entry, p: dict, key: str, files: dict, t0: float,
+              same_as: str | None = None) -> None:
+        nonlocal done
+        base = dict(result)
+        # the entry's interpretation may differ (expect, name) without changing the verdict
+        base.update(name=e.name, params=dict(p), label=label(e.name, p), expect=e.expect,
+                    require=e.require, engine=e.engine, files=list(e.files), spec=e.spec)
+        if same_as is not None:
+            base["same_as"] = same_as
+        records[i] = _finish(base, cached=True, seconds=time.perf_counter() - t0, key=key,
+                             files=files)
+        done += 1
+        if progress:
+            progress("done", done, total, records[i], label(e.name, p))
+
     for i, (e, p) in enumerate(work):
         t0 = time.perf_counter()
         key, files = entry_key(e, p, root)
         hit = cache.get(key, root) if use_cache else None
         if hit is not None:
-            base = dict(hit["result"])
-            # the entry's interpretation may have changed (expect) without changing the verdict
-            base.update(name=e.name, params=dict(p), label=label(e.name, p), expect=e.expect,
-                        require=e.require, engine=e.engine, files=list(e.files), spec=e.spec)
-            records[i] = _finish(base, cached=True, seconds=time.perf_counter() - t0, key=key,
-                                 files=files)
-            done += 1
-            if progress:
-                progress("done", done, total, records[i], label(e.name, p))
+            reuse(i, hit["result"], e, p, key, files, t0)
+        elif key in first_of:  # the same files, parameters, spec and options: check once
+            twins.setdefault(first_of[key], []).append((i, e, p, files))
         else:
+            first_of[key] = i
             pending.append((i, e, p, key, files))
 
     def store(i: int, record: dict, key: str, files: dict) -> None:
@@ -514,6 +530,8 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
         done += 1
         if progress:
             progress("done", done, total, records[i], records[i]["label"])
+        for j, e, p, f in twins.get(i, []):
+            reuse(j, record, e, p, key, f, time.perf_counter(), same_as=records[i]["label"])
 
     if jobs == 1 or len(pending) <= 1:
         for i, e, p, key, files in pending:

@@ -87,8 +87,10 @@ def _time(record: dict[str, Any]) -> str:
 def headline(summary) -> str:
     n = len(summary.records)
     parts = ", ".join(f"{c} {s}" for s, c in summary.counts.items())
+    caught = sum(1 for r in summary.records if r["ok"] and r["expect"] == "fail")
     cached = sum(1 for r in summary.records if r["cached"])
-    extra = f", {cached} from the cache" if cached else ""
+    extra = f" ({caught} of them broken on purpose and caught)" if caught else ""
+    extra += f", {cached} from the cache" if cached else ""
     return (f"{n} check{'s' if n != 1 else ''}: {parts}{extra}; {summary.seconds:.2f} s; "
             f"exit {summary.exit_code} ({_EXIT_MEANING[summary.exit_code]})")
 
@@ -135,6 +137,7 @@ def render_json(summary) -> dict[str, Any]:
             "files": r["files"], "file_hashes": r.get("file_hashes", {}),
             "design_hash": r.get("design_hash"), "cache_key": r.get("key"),
             "counterexample": r.get("counterexample"), "error": r.get("error"),
+            "same_as": r.get("same_as"),
         })
     return {"format": JSON_FORMAT, "tool_version": summary.tool_version,
             "manifest": summary.manifest, "ok": summary.ok, "exit_code": summary.exit_code,
