@@ -19,8 +19,8 @@ convention: the carry-in is folded into bit 0 before the network (``g0_cin = g0 
 source ``"carry-in folded into g0"``, not a prefix node), so the network always has ``width``
 positions and ``G_i_0`` is the carry into bit ``i+1`` (with the carry-in, where there is one).
 Node counts then match the published tables for the ``width - 1`` nontrivial prefixes, the last
-one being the carry out; a design built with ``cout=False`` has fewer nodes, since the unused
-ones are pruned. Gray cells (spans reaching bit 0) have no group-propagate gate.
+one being the carry out; a design built with ``cout=False`` has fewer nodes, since the nodes
+that only lead to the carry out (the top column) are pruned. Gray cells (spans reaching bit 0) have no group-propagate gate.
 """
 
 from __future__ import annotations
