@@ -561,10 +561,9 @@ class Translator:
             if v is None:
                 return None
             ow = op.type.bitWidth
-            if op.type.isSigned and ow and v >> (ow - 1) & 1:
+            if _extends_signed(e) and ow and v >> (ow - 1) & 1:
                 v -= 1 << ow
-            if not t.isFourState or t.isFourState:
-                return v & mask
+            return v & mask
         if k == EK.BinaryOp:
             op = e.op
             fn = _CONST_BINARY.get(op)
@@ -804,7 +803,7 @@ class Translator:
                 return self.ev(op)
             raise self.unsupported(f"conversion from '{op.type}' to '{e.type}'", e)
         bits = self.ev(op)
-        out = self.fit(bits, self.width(t, e), op.type.isSigned)
+        out = self.fit(bits, self.width(t, e), _extends_signed(e))
         if not t.isFourState and self.xnets:
             out = [CONST0 if x in self.xnets else x for x in out]  # 4-state to 2-state: x is 0
         return out
@@ -1620,6 +1619,18 @@ def _sv_int(sv, mask: int) -> int | None:
     if sv.isSigned and chars and chars[-1] == "1":
         v -= 1 << len(chars)
     return v & mask
+
+
+def _extends_signed(conv) -> bool:
+    """Whether a widening conversion copies the sign bit.
+
+    A conversion slang inserts to propagate an expression's type down to an operand (IEEE 1800
+    11.8.2: operands take the expression's signedness before they are extended) uses the
+    target's signedness; any other (an assignment, a cast, $signed) the operand's own.
+    """
+    if conv.conversionKind == ast.ConversionKind.Propagated:
+        return conv.type.isSigned
+    return conv.operand.type.isSigned
 
 
 def _signed(v: int, w: int) -> int:
