@@ -45,7 +45,8 @@ def counterexample_text(record: dict[str, Any]) -> str | None:
         if port in wrong:
             got = cex["actual"].get(port)
             bits = ",".join(str(b) for b in wrong[port])
-            outs.append(f"{port} expected {_hex(want)} got {_hex(got)} (wrong bits {bits})")
+            word = "bit" if len(wrong[port]) == 1 else "bits"
+            outs.append(f"{port} expected {_hex(want)} got {_hex(got)} (wrong {word} {bits})")
     return f"{ins}: " + "; ".join(outs)
 
 
@@ -86,12 +87,14 @@ def _time(record: dict[str, Any]) -> str:
 
 def headline(summary) -> str:
     n = len(summary.records)
-    parts = ", ".join(f"{c} {s}" for s, c in summary.counts.items())
     caught = sum(1 for r in summary.records if r["ok"] and r["expect"] == "fail")
     cached = sum(1 for r in summary.records if r["cached"])
-    extra = f" ({caught} of them broken on purpose and caught)" if caught else ""
-    extra += f", {cached} from the cache" if cached else ""
-    return (f"{n} check{'s' if n != 1 else ''}: {parts}{extra}; {summary.seconds:.2f} s; "
+    parts = []
+    for status, count in summary.counts.items():
+        note = f" ({caught} broken on purpose and caught)" if status == "met" and caught else ""
+        parts.append(f"{count} {status}{note}")
+    extra = f"; {cached} from the cache" if cached else ""
+    return (f"{n} check{'s' if n != 1 else ''}: {', '.join(parts)}{extra}; {summary.seconds:.2f} s; "
             f"exit {summary.exit_code} ({_EXIT_MEANING[summary.exit_code]})")
 
 
