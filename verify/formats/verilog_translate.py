@@ -49,6 +49,7 @@ class _Frame:
         self.nonblocking: dict[tuple, list] = {}
         self.event_keys = event_keys
         self.returned = False
+        self.parent: _Frame | None = None  # the caller's frame, for an inlined function
 
 
 class Translator:
@@ -669,7 +670,13 @@ class Translator:
         key, bits, offs = r
         f = self.frame
         out = []
-        env = f.env.get(key) if f is not None else None
+        env = None
+        if f is not None:
+            env = f.env.get(key)
+            up = f.parent
+            while env is None and up is not None and key not in f.locals:
+                env = up.env.get(key)  # a function sees its caller's current values
+                up = up.parent
         xw = None
         for o in offs:
             if o is None:
@@ -1459,6 +1466,7 @@ class Translator:
                 raise self.unsupported(f"function argument '{formal.name}' that is not an input", e)
             values.append(self.fit(self.ev(a), self.width(formal.type, e), a.type.isSigned))
         frame = _Frame(self.where(e))
+        frame.parent = self.frame
         for formal, v in zip(formals, values):
             key = (self.path, formal)
             frame.locals.add(key)
