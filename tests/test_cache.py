@@ -185,3 +185,14 @@ spec = "{ADD}"
     # 1 + a + b + cin is not the spec: Python integers, 1 + 0 + 0 + 0 = 1 != 0
     assert [r["verdict"] for r in again.records] == ["fail", "fail"]
     assert {r["key"] for r in again.records}.isdisjoint({r["key"] for r in first.records})
+
+
+def test_a_changed_submodule_file_changes_the_key(tmp_path):
+    (tmp_path / "top.v").write_text("module top(input a, output sum); half h(a, sum); endmodule\n")
+    (tmp_path / "half.v").write_text("module half(input a, output y); assign y = a; endmodule\n")
+    e = gate.Entry(name="top", files=("top.v", "half.v"), spec="sum = a")
+    k1, files = gate.entry_key(e, {}, tmp_path)
+    assert set(files) == {"top.v", "half.v"}
+    (tmp_path / "half.v").write_text("module half(input a, output y); assign y = ~a; endmodule\n")
+    k2, _ = gate.entry_key(e, {}, tmp_path)
+    assert k1 != k2 and gate.entry_key(e, {"W": 1}, tmp_path)[0] not in (k1, k2)

@@ -347,3 +347,20 @@ def test_a_commit_that_breaks_an_adder_turns_the_gate_red_and_a_fix_green(tmp_pa
     again = json.loads(p.stdout)["entries"]
     assert p.returncode == 1 and [e["cached"] for e in again] == [False, False, False]
     assert [e["verdict"] for e in again] == [e["verdict"] for e in entries]
+
+
+def test_the_terminal_progress_bar_starts_no_thread(lib, capsys):
+    """Workers are forked while the bar is shown: the bar must not leave a thread running."""
+    import threading
+
+    from verify.cli_gate import _RichProgress
+
+    m = manifest(lib, entry("larkspur_add4", "rtl/larkspur_add4.json") +
+                 entry("larkspur_bad5", "rtl/larkspur_bad5.json"))
+    before = threading.active_count()
+    with _RichProgress() as bar:
+        summary = gate.run(m, jobs=2, use_cache=False, progress=bar)
+        assert threading.active_count() == before
+    err = capsys.readouterr().err
+    assert "larkspur_add4: exhaustive" in err and "larkspur_bad5: fail" in err
+    assert summary.exit_code == 1

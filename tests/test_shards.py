@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 
 import pytest
+from hypothesis import given, settings, strategies as st
 
 from tests.helpers import ripple
 from verify.builder import GateBuilder
@@ -193,3 +194,19 @@ def test_merge_refuses_what_does_not_belong_together(shard_files, tmp_path, caps
     code, out, err = run_cli(capsys, "merge", *given)
     assert code == 2
     assert err.startswith("error: ") and err.count("\n") == 1 and "Traceback" not in err
+
+
+@settings(max_examples=300, deadline=None)
+@given(bits=st.integers(0, 40), count=st.integers(1, 1000), k=st.integers(1, 1000))
+def test_neighbouring_shards_meet_exactly(bits, count, k):
+    """Over any space: shard k ends where shard k+1 starts, the first at 0 and the last at 2^bits."""
+    total = 1 << bits
+    k = (k - 1) % count + 1
+    lo, hi = shard_range(total, (k, count))
+    assert 0 <= lo <= hi <= total
+    if k == 1:
+        assert lo == 0
+    if k == count:
+        assert hi == total
+    else:
+        assert shard_range(total, (k + 1, count))[0] == hi

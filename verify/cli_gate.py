@@ -48,7 +48,8 @@ class _RichProgress:
         self.console = Console(stderr=True)
         self.bar = Progress(TextColumn("verifying"), BarColumn(), MofNCompleteColumn(),
                             TimeElapsedColumn(), TextColumn("{task.description}"),
-                            console=self.console, transient=True)
+                            console=self.console, transient=True,
+                            auto_refresh=False)  # no thread: worker processes fork safely
         self.bar.__enter__()
         self.task = None
         return self
@@ -60,9 +61,9 @@ class _RichProgress:
         if self.task is None:
             self.task = self.bar.add_task("", total=total)
         if event == "start":
-            self.bar.update(self.task, description=label)
+            self.bar.update(self.task, description=label, refresh=True)
             return
-        self.bar.update(self.task, completed=done, description=label)
+        self.bar.update(self.task, completed=done, description=label, refresh=True)
         if record is not None:
             how = "cached" if record["cached"] else f"{record['seconds']:.2f} s"
             mark = "ok" if record["ok"] else record["status"]
