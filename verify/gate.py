@@ -380,7 +380,7 @@ def _forget_stale_trees(entry: Entry, root: Path) -> None:
     The reader reuses syntax trees while the listed files' size and time are unchanged; an
     included file that changed would not be seen by a long-lived process (the pytest plugin, a
     Python loop over commits). Comparing every dependency's hash with the last one seen here
-    keeps parameter sweeps fast and never checks a stale design.
+    keeps parameter sweeps fast (one parse per entry) and never checks a stale design.
     """
     if not any(Path(f).suffix in _VERILOG for f in entry.files):
         return
@@ -394,7 +394,7 @@ def _forget_stale_trees(entry: Entry, root: Path) -> None:
     from verify.cache import file_hashes
     ident = tuple(str((root / f).resolve()) for f in entry.files)
     now = file_hashes(entry_files(entry, root), root)
-    if _SEEN_DEPS.get(ident, now) != now:
+    if _SEEN_DEPS.get(ident) != now:  # first sight (trees of unknown age) or a changed file
         trees.clear()
     _SEEN_DEPS[ident] = now
 
