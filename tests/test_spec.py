@@ -667,3 +667,83 @@ def test_a_spec_survives_pickling_for_process_pools():
     again = pickle.loads(pickle.dumps(spec))
     assert again.text == spec.text
     assert again.evaluate({"a": 7, "b": 9, "cin": 1}) == {"sum": 1, "cout": 1}  # 17 = 0b1_0001
+
+
+# ---- random specs: the three translations agree; bad text only ever raises SpecError -------------
+
+_FUZZ = design({"a": 3, "b": 4, "c": 1, "d": 5}, {"y": 12, "z": 3}, "fuzz")
+
+
+@st.composite
+def rich_expr(draw, depth=4):
+    kinds = ["atom", "atom", "unary", "binary", "binary", "cond", "concat", "repeat", "slice",
+             "index", "cast"]
+    kind = draw(st.sampled_from(kinds if depth > 0 else ["atom"]))
+
+    def sub():
+        return draw(rich_expr(depth - 1))
+    if kind == "atom":
+        return draw(st.sampled_from(["a", "b", "c", "d", "0", "1", "7", "3'd5", "4'sb1010",
+                                     "8'hA5", "'d9"]))
+    if kind == "unary":
+        return f"{draw(st.sampled_from(_ALL_UNARY))}({sub()})"
+    if kind == "binary":
+        return f"({sub()}) {draw(st.sampled_from(_ALL_BINARY))} ({sub()})"
+    if kind == "cond":
+        return f"({sub()}) ? ({sub()}) : ({sub()})"
+    if kind == "concat":
+        return "{" + ", ".join(sub() for _ in range(draw(st.integers(1, 3)))) + "}"
+    if kind == "repeat":
+        return "{" + str(draw(st.integers(1, 3))) + "{" + sub() + "}}"
+    if kind == "slice":
+        lsb = draw(st.integers(0, 6))
+        return f"({sub()})[{lsb + draw(st.integers(0, 4))}:{lsb}]"
+    if kind == "index":
+        return f"({sub()})[{draw(st.sampled_from(['0', '2', '5', 'b', 'c', 'd[2:0]', 'a + b']))}]"
+    return f"${draw(st.sampled_from(['signed', 'unsigned']))}({sub()})"
+
+
+@settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(rich_expr(), st.integers(0, 1 << 16))
+def test_random_specs_agree_across_ints_gates_and_z3(expr, seed):
+    text = f"y = {expr}; z = y[2:0] ^ {{3{{c}}}}"
+    try:
+        spec = parse(text, _FUZZ)
+    except SpecError as e:  # refusals this generator can provoke, by design
+        assert any(why in e.message for why in ("may be negative", "selects bits outside",
+                                                  "bits; the limit is", "more than 4096")), e.message
+        return
+    ref = spec.reference()
+    rng = random.Random(seed)
+    for _ in range(4):
+        v = {p.name: rng.getrandbits(p.width) for p in _FUZZ.inputs}
+        want = spec.evaluate(v)  # Python integers: the ground truth
+        assert simulate(ref, v) == want, (text, v)
+        assert z3_values(spec, _FUZZ, v) == want, (text, v)
+        assert parse(spec.text, _FUZZ).evaluate(v) == want, spec.text
+
+
+_SOUP = ["a", "b", "c", "y", "z", "q", "0", "1", "3'd5", "4'sb1010", "8'hx1", "'d9", "2'b111",
+         "(", ")", "{", "}", "[", "]", ":", "?", ",", ";", "=", "+", "-", "*", "/", "<<", ">>>",
+         "==", "<=", "&", "|", "^", "~", "!", "~&", "$signed", "$unsigned", "$foo", "@", "\\y ",
+         "0'd1", "'", "//x\n", "/*", "4'", "1_0"]
+
+
+@settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.sampled_from(["", "y = ", "z = 0; y = a + "]), st.lists(st.sampled_from(_SOUP), max_size=12),
+       st.booleans())
+def test_garbled_specs_raise_only_one_line_spec_errors(prefix, tokens, spaced):
+    text = prefix + (" " if spaced else "").join(tokens)
+    try:
+        parse(text, _FUZZ)
+    except SpecError as e:
+        assert "\n" not in str(e) and str(e).startswith("spec: ")
+
+
+def test_a_product_too_wide_for_gates_is_refused_but_z3_and_ints_still_work():
+    d = design({"a": 4, "s": 10}, {"y": 8})
+    spec = parse("y = (a << s) * (a << s)", d)  # 1028-bit operands: over a million and-gates
+    with pytest.raises(SpecError, match="this product is .* bits wide"):
+        spec.reference()
+    assert spec.evaluate({"a": 3, "s": 1}) == {"y": 36}  # (3 * 2) ** 2, Python integers
+    assert z3_values(spec, d, {"a": 3, "s": 1}) == {"y": 36}

@@ -39,6 +39,8 @@ __all__ = ["Spec", "parse", "infer", "MAX_BITS"]
 
 #: a gate-level or z3 value is refused when it would need more bits than this
 MAX_BITS = 4096
+#: the gate reference refuses a product that would take more and-gates than this
+MAX_PRODUCT_GATES = 1_000_000
 #: the self-determined width of an unsized literal (Verilog rule)
 UNSIZED_WIDTH = 32
 
@@ -898,9 +900,10 @@ def _const_bits(v: int) -> Bits:
 class _GateCompiler(_Visitor):
     """Each node becomes a Bits value, trimmed to the width its interval needs."""
 
-    def __init__(self, b: GateBuilder, env: Mapping[str, Bits]):
+    def __init__(self, b: GateBuilder, env: Mapping[str, Bits], text: str = ""):
         self.b = b
         self.env = env
+        self.text = text  # for error locations
 
     def visit(self, node: Node) -> Bits:
         if node.const:
@@ -1033,6 +1036,11 @@ class _GateCompiler(_Visitor):
             return self.from_low(self.sub(x, y, size))
         if op == "*":
             xs, ys = x.low(size), y.low(size)
+            cost = sum(v not in (CONST0, CONST1) for v in xs) * sum(v not in (CONST0, CONST1) for v in ys)
+            if cost > MAX_PRODUCT_GATES:
+                raise SpecError(f"{_location(self.text, n.pos)}: this product is {size} bits wide; "
+                                f"as gates it would take over {MAX_PRODUCT_GATES:,} and-gates",
+                                where="spec")
             acc = [CONST0] * size
             for i, yi in enumerate(ys):
                 partial = [CONST0] * i + [b.and_(yi, xj) for xj in xs[:size - i]]
@@ -1371,7 +1379,7 @@ class Spec:
             b = GateBuilder(prefix, fold=True)
             env: dict[str, Bits] = {p.name: Bits(tuple(p.bits)) for p in self.inputs}
             outs: dict[str, list[str]] = {p.name: [CONST0] * p.width for p in self.outputs}
-            compiler = _GateCompiler(b, env)
+            compiler = _GateCompiler(b, env, self.source)
             for eq, (_, width, layout) in zip(self.equations, self._int):
                 value = compiler.visit(eq.rhs).low(width)
                 for port, lsb, w, offset in layout:
