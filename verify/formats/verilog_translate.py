@@ -1581,6 +1581,8 @@ def _sv_chars(sv) -> list[str]:
     s = sv.toString(pyslang.LiteralBase.Binary, False).replace("_", "").lower()
     if "'" in s:
         s = s.split("b", 1)[-1]
+    if s.startswith("-"):  # a negative signed value prints with a minus sign: two's complement
+        s = format((1 << sv.bitWidth) - int(s[1:], 2), "b")
     if len(s) < sv.bitWidth:
         s = (s[0] if s and s[0] in "xz" else "0") * (sv.bitWidth - len(s)) + s
     return list(reversed(s))[:sv.bitWidth]
