@@ -425,3 +425,82 @@ def test_round_trip_through_the_writer(tmp_path, name, params):
     if HAVE_IVERILOG:
         ins, outs = widths(n)
         assert simulate([f], back.name, ins, outs, vecs) == run(n, vecs)  # Icarus Verilog
+
+
+# ---- more hierarchy and port styles -------------------------------------------------------
+
+def test_module_instance_arrays_and_concatenations_in_connections(tmp_path):
+    f = write(tmp_path, "iarr.v", """
+module larkspur_fa1(input a, b, ci, output s, co);
+  assign {co, s} = a + b + ci;
+endmodule
+module larkspur_swap(input [1:0] x, output [1:0] y);
+  assign y = {x[0], x[1]};
+endmodule
+module iarr(input [3:0] a, b, input cin, output [3:0] s, output cout, output [3:0] y);
+  wire [4:0] c;
+  wire p, q;
+  assign c[0] = cin;
+  larkspur_fa1 u [3:0] (.a(a), .b(b), .ci(c[3:0]), .s(s), .co(c[4:1]));
+  assign cout = c[4];
+  larkspur_swap k (.x({a[1], a[0] ^ a[3]}), .y({p, q}));
+  assign y = {a[3:2], p, q};
+endmodule
+""")
+    n = load([f], top="iarr")
+    sim = Simulator(n)
+    for a in range(16):
+        for b in range(16):
+            for cin in (0, 1):
+                t = a + b + cin  # Python integers
+                swapped = ((a & 1) ^ (a >> 3)) << 1 | (a >> 1 & 1)
+                assert sim.evaluate({"a": a, "b": b, "cin": cin}) == {
+                    "s": t & 15, "cout": t >> 4, "y": (a & 12) | swapped}
+    assert any(g.source and g.source.endswith(" u[2]") for g in n.gates)
+
+
+def test_non_ansi_ports_supply_nets_and_multi_output_buf(tmp_path):
+    f = write(tmp_path, "old.v", """
+module old(a, b, y, z1, z2);
+  input [3:0] a;
+  input b;
+  output [3:0] y;
+  output z1, z2;
+  supply1 vdd;
+  supply0 gnd;
+  assign y = a & {4{vdd}} | {4{gnd}};
+  buf (z1, z2, b);
+endmodule
+""")
+    n = load([f])
+    assert [p.name for p in n.inputs] == ["a", "b"]
+    for a in range(16):
+        assert Simulator(n).evaluate({"a": a, "b": 1}) == {"y": a, "z1": 1, "z2": 1}
+
+
+def test_system_functions_and_functions_reading_block_variables(tmp_path):
+    f = write(tmp_path, "sysf.sv", """
+module sysf #(parameter W = 8) (input logic [W-1:0] a, b, output logic [7:0] y, z,
+                                 output logic [W-1:0] q);
+  logic [W-1:0] t;
+  function automatic logic [W-1:0] plus_t(input logic [W-1:0] v);
+    plus_t = v + t;
+  endfunction
+  assign y = a + $clog2(W);
+  assign z = $bits(a) + $size(b);
+  always_comb begin
+    t = a;
+    q = plus_t(b);
+  end
+endmodule
+""")
+    sim = Simulator(load([f]))
+    for a, b in [(5, 9), (255, 1), (0, 0), (128, 200)]:
+        assert sim.evaluate({"a": a, "b": b}) == {"y": (a + 3) & 255, "z": 16, "q": (a + b) & 255}
+
+
+def test_two_state_types_read_x_as_zero(tmp_path):
+    # IEEE 1800 6.22.4 (from memory): a 4-state value assigned to a 2-state type maps x/z to 0
+    n = _fn(tmp_path, "  bit [3:0] t;\n  assign t = 4'b1x0z;\n  assign y = a ^ t;",
+            "input logic [3:0] a, output logic [3:0] y")
+    assert Simulator(n).evaluate({"a": 0}) == {"y": 0b1000}
