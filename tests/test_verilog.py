@@ -504,3 +504,15 @@ def test_two_state_types_read_x_as_zero(tmp_path):
     n = _fn(tmp_path, "  bit [3:0] t;\n  assign t = 4'b1x0z;\n  assign y = a ^ t;",
             "input logic [3:0] a, output logic [3:0] y")
     assert Simulator(n).evaluate({"a": 0}) == {"y": 0b1000}
+
+
+def test_edited_include_file_is_parsed_again(tmp_path):
+    inc = tmp_path / "inc"
+    inc.mkdir()
+    header = inc / "w.vh"
+    header.write_text("`define LW 4\n")
+    f = write(tmp_path, "h.v", '`include "w.vh"\nmodule h(input [`LW-1:0] a, output [`LW-1:0] y);\n'
+              "  assign y = a;\nendmodule\n")
+    assert load([f], include_dirs=[str(inc)]).width("a") == 4
+    header.write_text("`define LW 12\n")
+    assert load([f], include_dirs=[str(inc)]).width("a") == 12

@@ -60,8 +60,8 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
     key = (_file_key(paths), tuple(str(Path(d).resolve()) for d in include_dirs),
            tuple(sorted((k, v) for k, v in defines.items())))
     hit = _TREE_CACHE.get(key)
-    if hit is not None:
-        return hit
+    if hit is not None and _deps_unchanged(hit[2]):
+        return hit[:2]
     from pyslang import parsing, syntax
     sm = pyslang.SourceManager()
     pp = parsing.PreprocessorOptions()
@@ -74,10 +74,36 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
             trees.append(syntax.SyntaxTree.fromFile(str(p), sm, bag))
         except Exception as e:  # pyslang raises plain exceptions for unreadable files
             raise InputError(f"cannot read the file: {e}", str(p)) from None
+    _TREE_CACHE.pop(key, None)
     if len(_TREE_CACHE) >= _TREE_CACHE_MAX:
         _TREE_CACHE.pop(next(iter(_TREE_CACHE)))
-    _TREE_CACHE[key] = [sm, trees]
-    return _TREE_CACHE[key]
+    _TREE_CACHE[key] = [sm, trees, _dependencies(sm)]
+    return sm, trees
+
+
+def _dependencies(sm) -> list[tuple[str, int, int]]:
+    """Every file the parse read (the sources and their `include files), with mtime and size."""
+    deps = []
+    for buf in sm.getAllBuffers():
+        try:
+            path = str(sm.getFullPath(buf))
+            st = os.stat(path)
+        except (OSError, ValueError):
+            continue
+        if os.path.isfile(path):
+            deps.append((path, st.st_mtime_ns, st.st_size))
+    return deps
+
+
+def _deps_unchanged(deps) -> bool:
+    for path, mtime, size in deps:
+        try:
+            st = os.stat(path)
+        except OSError:
+            return False
+        if st.st_mtime_ns != mtime or st.st_size != size:
+            return False
+    return True
 
 
 class Locator:
