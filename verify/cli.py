@@ -257,5 +257,14 @@ def worst(codes: list[int]) -> int:
     return 0
 
 
+# ---- the other commands, each in the module of its concern ---------------------------------
+def _register_commands() -> None:
+    from verify import cli_gate, cli_library
+    for module in (cli_library, cli_gate):
+        module.register(cli)
+
+
+_register_commands()
+
 if __name__ == "__main__":  # pragma: no cover
     main()
