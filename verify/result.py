@@ -141,6 +141,11 @@ class CheckResult:
         if v is Verdict.EXHAUSTIVE:
             return (f"all 2^{bits} = {2 ** bits:,} input combinations simulated; every output "
                     f"equals the spec")
+        if v is Verdict.TESTED and "shard" in self.extras:
+            sh = self.extras["shard"]
+            return (f"shard {sh['index']}/{sh['count']}: vectors {sh['first']:,}..{sh['last']:,} of "
+                    f"the 2^{bits} simulated, all matched; 'verify merge' over all {sh['count']} "
+                    f"shards gives the exhaustive verdict")
         if v is Verdict.TESTED:
             n = sum(e.vectors or 0 for e in self.engines if e.status == "pass")
             return (f"tested {n:,} input vectors, all matched; this is a sample of the 2^{bits} "

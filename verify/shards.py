@@ -58,13 +58,19 @@ def _shard_of(item: Any, where: str) -> dict[str, Any]:
     if not isinstance(design, dict) or not isinstance(design.get("hash"), str) \
             or not isinstance(design.get("inputs"), dict):
         raise InputError("the result has no design hash or input ports", where)
+    # a passing shard is 'tested' (one part of the space); 'exhaustive' only when it is 1 of 1
     if not isinstance(item.get("spec"), str) or item.get("verdict") not in (
-            "exhaustive", "fail", "inconclusive"):
+            "tested", "exhaustive", "fail", "inconclusive"):
         raise InputError(f"unexpected verdict {item.get('verdict')!r} for a shard", where)
     engines = [e.get("engine") for e in item.get("engines", []) if isinstance(e, dict)]
     if engines != ["exhaustive"]:
         raise InputError("a shard result must come from the exhaustive engine alone", where)
     return shard
+
+
+def _passed(item: dict[str, Any]) -> bool:
+    """The shard's exhaustive engine simulated its whole part and every output matched."""
+    return item["verdict"] in ("tested", "exhaustive") and item["engines"][0].get("status") == "pass"
 
 
 def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
@@ -117,7 +123,7 @@ def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
     missing = [k for k in range(1, count + 1) if k not in by_index]
     failed = [(w, s, i) for w, s, i in shards if i["verdict"] == "fail"]
     unfinished = [(w, s, i) for w, s, i in shards if i["verdict"] == "inconclusive"]
-    covered = sum(s["vectors"] for _, s, i in shards if i["verdict"] == "exhaustive")
+    covered = sum(s["vectors"] for _, s, i in shards if _passed(i))
 
     if failed:
         verdict, code = "fail", 1
