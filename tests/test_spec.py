@@ -792,3 +792,14 @@ def test_evaluate_matches_iverilog_where_verilog_widths_coincide(tmp_path):
     for v, row in zip(vecs, got):
         # Source: Icarus Verilog simulating the same expressions
         assert dict(zip(outs, row)) == spec.evaluate(v), v
+
+
+def test_long_chains_work_and_absurd_nesting_is_refused():
+    d = design({"a": 8}, {"y": 16})
+    popcount = parse("y = " + " + ".join(f"a[{i % 8}]" for i in range(600)), d)
+    # each bit counted 75 times (Python integers)
+    assert popcount.evaluate({"a": 0b1011_0001}) == {"y": 75 * 4}
+    assert simulate(popcount.reference(), {"a": 0b1011_0001}) == {"y": 300}
+    assert z3_values(popcount, d, {"a": 0b1011_0001}) == {"y": 300}
+    assert "nested more than 1000 levels deep" in spec_error("y = " + " ^ ".join(["a"] * 1200), d)
+    assert "nested more than 1000 levels deep" in spec_error("y = " + "(" * 6000 + "a" + ")" * 6000, d)

@@ -27,6 +27,8 @@ from __future__ import annotations
 import dataclasses
 import operator
 import re
+import sys
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from functools import reduce
 from typing import Any, Callable, Mapping, NamedTuple, Sequence
@@ -41,11 +43,25 @@ __all__ = ["Spec", "parse", "infer", "MAX_BITS"]
 MAX_BITS = 4096
 #: the gate reference refuses a product that would take more and-gates than this
 MAX_PRODUCT_GATES = 1_000_000
+#: expressions nested deeper than this (a chain of 1000 additions, say) are refused
+MAX_DEPTH = 1000
 #: the self-determined width of an unsized literal (Verilog rule)
 UNSIZED_WIDTH = 32
 
 
 # ==== locations and errors ===================================================================
+
+@contextmanager
+def _deep():
+    """Room for the recursive visitors on a deeply nested spec (up to MAX_DEPTH levels)."""
+    old = sys.getrecursionlimit()
+    if old < 20 * MAX_DEPTH:
+        sys.setrecursionlimit(20 * MAX_DEPTH)
+    try:
+        yield
+    finally:
+        sys.setrecursionlimit(old)
+
 
 def _location(text: str, pos: int) -> str:
     """'column N' (1-based, of the whole text), with the line too when the text has several."""
@@ -529,6 +545,7 @@ class _Resolver:
         self.outputs = {p.name: p.width for p in design.outputs}
         self.defined: dict[str, dict[int, int]] = {p: {} for p in self.outputs}  # bit -> pos
         self.used: set[str] = set()
+        self.depth = 0
 
     def error(self, pos: int, message: str) -> SpecError:
         return _error(self.text, pos, message)
@@ -596,7 +613,13 @@ class _Resolver:
 
     # ---- expressions
     def visit(self, node: Node) -> Node:
-        r = getattr(self, "visit_" + type(node).__name__)(node)
+        self.depth += 1
+        if self.depth > MAX_DEPTH:
+            raise self.error(node.pos, f"the expression is nested more than {MAX_DEPTH} levels deep")
+        try:
+            r = getattr(self, "visit_" + type(node).__name__)(node)
+        finally:
+            self.depth -= 1
         if r.const and not isinstance(r, Number):
             value = _IntCompiler().visit(dataclasses.replace(r, const=False))({})
             r = dataclasses.replace(r, lo=value, hi=value)
@@ -1348,11 +1371,20 @@ class Spec:
     def __setstate__(self, state: dict[str, Any]) -> None:
         self.__dict__.update(state)
         compiler = _IntCompiler()
-        self._int = [(compiler.visit(eq.rhs), eq.width, self._layout(eq)) for eq in self.equations]
+        with _deep():
+            self._int = [(compiler.visit(eq.rhs), eq.width, self._layout(eq))
+                         for eq in self.equations]
 
     # ---- ground truth
     def evaluate(self, inputs: Mapping[str, int]) -> dict[str, int]:
         """Every output port's specified value (0 <= v < 2^width) for one input vector."""
+        try:
+            return self._evaluate(inputs)
+        except RecursionError:  # a deeply nested spec: retry with room for it
+            with _deep():
+                return self._evaluate(inputs)
+
+    def _evaluate(self, inputs: Mapping[str, int]) -> dict[str, int]:
         env: dict[str, int] = {}
         for p in self.inputs:
             if p.name in self.inputs_used:
@@ -1372,26 +1404,34 @@ class Spec:
     def reference(self) -> Netlist:
         """The spec as gates, with the design's input and output ports (cached)."""
         if self._reference is None:
-            names = {p.name for p in (*self.inputs, *self.outputs)}
-            prefix = "ref_"
-            while any(n.startswith(prefix) for n in names):
-                prefix += "_"
-            b = GateBuilder(prefix, fold=True)
-            env: dict[str, Bits] = {p.name: Bits(tuple(p.bits)) for p in self.inputs}
-            outs: dict[str, list[str]] = {p.name: [CONST0] * p.width for p in self.outputs}
-            compiler = _GateCompiler(b, env, self.source)
-            for eq, (_, width, layout) in zip(self.equations, self._int):
-                value = compiler.visit(eq.rhs).low(width)
-                for port, lsb, w, offset in layout:
-                    outs[port][lsb:lsb + w] = value[offset:offset + w]
-                    env[port] = Bits(tuple(outs[port]))
-            self._reference = b.netlist(f"{self.design_name}_spec", self.inputs, outs,
-                                        origin=f"spec: {self.text}")
+            with _deep():
+                self._reference = self._build_reference()
         return self._reference
+
+    def _build_reference(self) -> Netlist:
+        names = {p.name for p in (*self.inputs, *self.outputs)}
+        prefix = "ref_"
+        while any(n.startswith(prefix) for n in names):
+            prefix += "_"
+        b = GateBuilder(prefix, fold=True)
+        env: dict[str, Bits] = {p.name: Bits(tuple(p.bits)) for p in self.inputs}
+        outs: dict[str, list[str]] = {p.name: [CONST0] * p.width for p in self.outputs}
+        compiler = _GateCompiler(b, env, self.source)
+        for eq, (_, width, layout) in zip(self.equations, self._int):
+            value = compiler.visit(eq.rhs).low(width)
+            for port, lsb, w, offset in layout:
+                outs[port][lsb:lsb + w] = value[offset:offset + w]
+                env[port] = Bits(tuple(outs[port]))
+        return b.netlist(f"{self.design_name}_spec", self.inputs, outs,
+                         origin=f"spec: {self.text}")
 
     # ---- z3
     def to_z3(self, inputs: Mapping[str, Any]) -> dict[str, Any]:
         """Each output port's specified value as a z3 BitVec of the port width (word-level)."""
+        with _deep():
+            return self._to_z3(inputs)
+
+    def _to_z3(self, inputs: Mapping[str, Any]) -> dict[str, Any]:
         import z3
         env: dict[str, Any] = {}
         for p in self.inputs:
@@ -1417,11 +1457,16 @@ def parse(text: str, design: Netlist, *, inferred: bool = False) -> Spec:
     """Parse and check spec equations against a design; every mistake is one SpecError."""
     if not isinstance(text, str):
         raise SpecError(f"a spec is text, got {type(text).__name__}", where="spec")
-    equations = _Parser(text).equations()
-    resolver = _Resolver(text, design)
-    resolved = [resolver.equation(eq) for eq in equations]
-    resolver.finish()
-    return Spec(text, design, resolved, resolver.used, inferred)
+    with _deep():
+        try:
+            equations = _Parser(text).equations()
+        except RecursionError:
+            raise SpecError(f"the spec is nested more than {MAX_DEPTH} levels deep",
+                            where="spec") from None
+        resolver = _Resolver(text, design)
+        resolved = [resolver.equation(eq) for eq in equations]
+        resolver.finish()
+        return Spec(text, design, resolved, resolver.used, inferred)
 
 
 # ==== inference ==============================================================================
