@@ -328,6 +328,11 @@ def test_concatenation_takes_self_determined_widths(text, value):
     ("{cout, sum = a", "expected '}' to close '{' at column 1"),
     ("{cout, 5} = a", "expected an output port name on the left side, found '5'"),
     ("{cout, sum} = a /* never closed", "comment '/*' is never closed"),
+    ("{cout, sum} = a + \u00e9", "column 19: unexpected character '\u00e9'"),
+    ("{cout, sum} = a + \u00b2", "unexpected character"),
+    ("{cout, sum} = 99999'd1", "a size over 4096 bits"),
+    ("{cout, sum} = " + "9" * 2000, "is longer than 4096 bits"),
+    ("{cout, sum} = 8'h" + "f" * 2000, "is longer than 4096 bits"),
 ])
 def test_error_messages_say_what_and_where(text, fragment):
     assert fragment in spec_error(text)

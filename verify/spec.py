@@ -96,6 +96,9 @@ _DECIMAL = re.compile(r"[0-9][0-9_]*")
 _BASED = re.compile(r"'([sS]?)([bBoOdDhH])?[ \t]*([0-9a-zA-Z_?]*)")
 _BASES = {"b": (2, "binary"), "o": (8, "octal"), "d": (10, "decimal"), "h": (16, "hex")}
 _SIMPLE_NAME = re.compile(r"^[A-Za-z_][A-Za-z0-9_$]*$")
+_DIGITS = "0123456789"
+_IDENT_START = set("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ_")
+_DIGIT_VALUE = {d: int(d, 16) for d in "0123456789abcdefABCDEF"}
 
 
 def _lex(text: str) -> list[Token]:
@@ -116,7 +119,7 @@ def _lex(text: str) -> list[Token]:
                 raise _error(text, i, "comment '/*' is never closed with '*/'")
             i = j + 2
             continue
-        if c.isalpha() or c == "_":
+        if c in _IDENT_START:
             m = _IDENT.match(text, i)
             tokens.append(Token("name", m.group(), i))
             i = m.end()
@@ -135,7 +138,7 @@ def _lex(text: str) -> list[Token]:
             tokens.append(Token("sys", m.group(), i))
             i = m.end()
             continue
-        if c.isdigit() or c == "'":
+        if c in _DIGITS or c == "'":
             i = _lex_number(text, i, tokens)
             continue
         for op in _OPERATORS:
@@ -153,9 +156,11 @@ def _lex_number(text: str, start: int, tokens: list[Token]) -> int:
     """A plain decimal, or a [size]'[s]<base><digits> literal; returns the index after it."""
     size: int | None = None
     i = start
-    if text[i].isdigit():
+    if text[i] in _DIGITS:
         m = _DECIMAL.match(text, i)
         digits = m.group().replace("_", "")
+        if len(digits) > MAX_BITS // 3:  # over 4096 bits whatever it is
+            raise _error(text, start, f"number {m.group()[:20]}... is longer than {MAX_BITS} bits")
         i = m.end()
         j = i
         while j < len(text) and text[j] in " \t":
@@ -179,10 +184,14 @@ def _lex_number(text: str, start: int, tokens: list[Token]) -> int:
             raise _error(text, m.start(3) + k,
                          f"x/z digits are not supported in a spec value ({lexeme!r}): "
                          "a spec says which number each output must be")
-        if d != "_" and (not d.isalnum() or int(d, 36) >= radix):
+        if d != "_" and _DIGIT_VALUE.get(d, 99) >= radix:
             raise _error(text, m.start(3) + k, f"{d!r} is not a {base_name} digit in {lexeme!r}")
+    if len(clean) * radix.bit_length() > 4 * MAX_BITS:
+        raise _error(text, start, f"literal {lexeme[:20]!r}... is longer than {MAX_BITS} bits")
     value = int(clean, radix)
     if size is not None:
+        if size > MAX_BITS:
+            raise _error(text, start, f"literal {lexeme!r}: a size over {MAX_BITS} bits")
         if size < 1:
             raise _error(text, start, f"literal {lexeme!r}: a size must be at least 1")
         if value >= 1 << size:
