@@ -11,7 +11,7 @@ from dataclasses import dataclass
 from typing import Callable, Mapping
 
 from verify.netlist import Netlist
-from verify.result import Counterexample
+from verify.result import Counterexample, EngineOutcome
 
 #: the largest input space the exhaustive engine takes by default: 2^26 vectors
 DEFAULT_EXHAUSTIVE_BITS = 26
@@ -48,3 +48,21 @@ def confirm(design: Netlist, spec, inputs: Mapping[str, int], simulator=None) ->
         return None
     return Counterexample(ins, {p.name: expected[p.name] for p in design.outputs},
                           {p.name: actual[p.name] for p in design.outputs})
+
+
+def confirmed(engine: str, design: Netlist, spec, inputs: Mapping[str, int]) -> Counterexample:
+    """``confirm`` for a vector an engine found failing; if it does not re-simulate as a failure,
+    the engine and the integer spec disagree, which is a bug in this tool, never a verdict."""
+    cex = confirm(design, spec, inputs)
+    if cex is None:
+        raise RuntimeError(f"{engine} engine: input {dict(inputs)} differs from the spec's "
+                           "reference but not from the spec on integers")
+    return cex
+
+
+def stopped(engine: str, seconds: float, options: Options, done: int, total: int,
+            details: dict) -> EngineOutcome:
+    """The outcome of a simulation cut short by the time limit: inconclusive, never a pass."""
+    return EngineOutcome(engine, "inconclusive", seconds,
+                         f"stopped at the {options.timeout:g} s limit after {done:,} of {total:,} "
+                         f"vectors, all matching", vectors=done, details=details)

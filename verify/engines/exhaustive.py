@@ -12,7 +12,7 @@ import time
 
 import numpy as np
 
-from verify.engines import Options, confirm
+from verify.engines import Options, confirmed, stopped
 from verify.result import EngineOutcome
 from verify.sim import Miter
 
@@ -60,18 +60,12 @@ def run(design, spec, options: Options) -> EngineOutcome:
                             "vectors": hi - lo, "first": lo, "last": hi - 1}
     part = f"vectors {lo:,}..{hi - 1:,} of the 2^{n}" if options.shard else f"all 2^{n} = {total:,} input combinations"
     if found is not None:
-        inputs = _vector(design, found)
-        cex = confirm(design, spec, inputs)
-        if cex is None:  # the reference and the integer spec disagree: a bug in this tool
-            raise RuntimeError(f"exhaustive engine: vector {found} differs from the reference "
-                               "but not from the integer spec")
+        cex = confirmed("exhaustive", design, spec, _vector(design, found))
         return EngineOutcome("exhaustive", "fail", seconds,
                              f"vector {found:,} of {part} gives a wrong output",
                              vectors=done, counterexample=cex, details=details)
     if done < hi - lo:
-        return EngineOutcome("exhaustive", "inconclusive", seconds,
-                             f"stopped at the {options.timeout:g} s limit after {done:,} of {hi - lo:,} "
-                             f"vectors, all matching", vectors=done, details=details)
+        return stopped("exhaustive", seconds, options, done, hi - lo, details)
     return EngineOutcome("exhaustive", "pass", seconds,
                          f"simulated {part}: every output equals the spec "
                          f"({rate:,.0f} vectors/s)", vectors=done, details=details)

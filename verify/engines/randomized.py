@@ -20,7 +20,7 @@ import time
 
 import numpy as np
 
-from verify.engines import DEFAULT_VECTORS, Options, confirm
+from verify.engines import DEFAULT_VECTORS, Options, confirmed, stopped
 from verify.result import EngineOutcome
 from verify.sim import Miter
 
@@ -39,10 +39,7 @@ def run(design, spec, options: Options) -> EngineOutcome:
         diff = miter.run(batch.words, (1 << k) - 1)
         if diff:
             j = (diff & -diff).bit_length() - 1
-            cex = confirm(design, spec, batch.vector(j))
-            if cex is None:
-                raise RuntimeError("random engine: a vector differs from the reference but not "
-                                   "from the integer spec")
+            cex = confirmed("random", design, spec, batch.vector(j))
             done += j + 1
             seconds = time.perf_counter() - started
             details["vectors_per_second"] = round(done / seconds) if seconds else None
@@ -59,9 +56,7 @@ def run(design, spec, options: Options) -> EngineOutcome:
     details["vectors_per_second"] = round(done / seconds) if seconds else None
     details["mix"] = gen.mix
     if done < budget:
-        return EngineOutcome("random", "inconclusive", seconds,
-                             f"stopped at the {options.timeout:g} s limit after {done:,} of "
-                             f"{budget:,} vectors, all matching", vectors=done, details=details)
+        return stopped("random", seconds, options, done, budget, details)
     return EngineOutcome("random", "pass", seconds,
                          f"tested {done:,} vectors (seed {options.seed}): all outputs match; a "
                          f"sample, not a proof", vectors=done, details=details)

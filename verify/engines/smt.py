@@ -12,7 +12,7 @@ import time
 
 import z3
 
-from verify.engines import Options, confirm
+from verify.engines import Options, confirmed
 from verify.netlist import CONST0, CONST1, Netlist
 from verify.result import EngineOutcome
 
@@ -90,9 +90,7 @@ def run(design, spec, options: Options) -> EngineOutcome:
     if answer == z3.sat:
         model = solver.model()
         inputs = {n: model.eval(v, model_completion=True).as_long() for n, v in ctx_inputs.items()}
-        cex = confirm(design, spec, inputs)
-        if cex is None:
-            raise RuntimeError("smt engine: z3's model does not re-simulate as a failure")
+        cex = confirmed("smt", design, spec, inputs)
         return EngineOutcome("smt", "fail", seconds, "z3 found an input where an output differs (sat)",
                              counterexample=cex, details=details)
     reason = solver.reason_unknown() or "unknown"
