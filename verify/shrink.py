@@ -49,6 +49,8 @@ def shrink(design, spec, cex: Counterexample, *, seconds: float = 5.0,
     except NoSuchExample:  # pragma: no cover - the deadline passed before the replay
         return cex
     smaller = _clear_bits(fails, list(smaller))
+    smaller = _polish(design, miter, _fewest_bits(design, miter, list(smaller), deadline),
+                      deadline)
     found = confirm(design, spec, dict(zip(names, smaller)))
     return found if found is not None else cex
 
@@ -62,4 +64,94 @@ def _clear_bits(fails, values: list[int]) -> tuple[int, ...]:
                 trial[k] &= ~(1 << i)
                 if fails(tuple(trial)):
                     values = trial
+    return tuple(values)
+
+
+def _carry_chain(values: list[int], widths: list[int]) -> int:
+    """Longest run of carries when the two widest inputs are added (0 with fewer than two)."""
+    wide = sorted(range(len(values)), key=lambda k: -widths[k])[:2]
+    if len(wide) < 2 or widths[wide[1]] < 2:
+        return 0
+    x, y = values[wide[0]], values[wide[1]]
+    carries = (x + y) ^ x ^ y
+    best = run = 0
+    while carries:
+        if carries & 1:
+            run += 1
+            best = max(best, run)
+        else:
+            run = 0
+        carries >>= 1
+    return best
+
+
+def _fewest_bits(design, miter: Miter, values: list[int], deadline: float) -> list[int]:
+    """A failing vector with the fewest set bits, by trying every vector with 1, 2, 3 set bits
+    (while there are at most 20,000 of a count and fewer bits than ``values`` has)."""
+    from itertools import combinations
+    from math import comb
+
+    names = [p.name for p in design.inputs]
+    slots = [(k, i) for k, p in enumerate(design.inputs) for i in range(p.width)]
+    have = sum(bin(v).count("1") for v in values)
+    for count in range(1, min(have, 4)):
+        if comb(len(slots), count) > 20_000 or time.perf_counter() > deadline:
+            break
+        cands = []
+        for chosen in combinations(slots, count):
+            t = [0] * len(values)
+            for k, i in chosen:
+                t[k] |= 1 << i
+            cands.append(t)
+        vecs = [dict(zip(names, c)) for c in cands]
+        ok = miter.run(pack(design, vecs), (1 << len(vecs)) - 1)
+        good = [c for j, c in enumerate(cands) if ok >> j & 1]
+        if good:
+            widths = [p.width for p in design.inputs]
+            return min(good, key=lambda vs: (_carry_chain(vs, widths), sum(vs)))
+    return values
+
+
+def _polish(design, miter: Miter, values: list[int], deadline: float) -> tuple[int, ...]:
+    """Smaller still, by (set bits, longest carry chain, operand size): clear a pair of bits at
+    one position (a generate), or move a bit or such a pair one position down. All candidates of
+    a round are simulated at once (bit-parallel); a round ends at the time limit."""
+    names = [p.name for p in design.inputs]
+    widths = [p.width for p in design.inputs]
+
+    def key(vs: list[int]) -> tuple[int, int, int]:
+        return (sum(bin(v).count("1") for v in vs), _carry_chain(vs, widths), sum(vs))
+
+    best = key(values)
+    for _ in range(4 * sum(widths)):
+        if time.perf_counter() > deadline:
+            break
+        cands: list[list[int]] = []
+        for k, v in enumerate(values):
+            for i in range(widths[k]):
+                if v >> i & 1 and i > 0 and not v >> (i - 1) & 1:  # one bit down
+                    t = values.copy()
+                    t[k] = v & ~(1 << i) | (1 << (i - 1))
+                    cands.append(t)
+                for m in range(k + 1, len(values)):
+                    if i < widths[m] and v >> i & 1 and values[m] >> i & 1:
+                        t = values.copy()  # clear the pair
+                        t[k] &= ~(1 << i)
+                        t[m] &= ~(1 << i)
+                        cands.append(t)
+                        if i > 0 and not (v >> (i - 1) & 1 or values[m] >> (i - 1) & 1):
+                            t = t.copy()  # the pair one position down
+                            t[k] |= 1 << (i - 1)
+                            t[m] |= 1 << (i - 1)
+                            cands.append(t)
+        cands = [c for c in cands if key(c) < best]
+        if not cands:
+            break
+        vecs = [dict(zip(names, c)) for c in cands]
+        ok = miter.run(pack(design, vecs), (1 << len(vecs)) - 1)
+        good = [c for j, c in enumerate(cands) if ok >> j & 1]
+        if not good:
+            break
+        values = min(good, key=key)
+        best = key(values)
     return tuple(values)

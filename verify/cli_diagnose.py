@@ -1,0 +1,129 @@
+"""``verify explain``: one input vector through the design, bit by bit, and where it goes wrong.
+
+``register(cli)`` adds the command to the main click group (verify.cli).
+
+Exit codes: 0 the vector gives the outputs the spec expects, 1 it does not, 2 bad input; without
+``--input`` the design is checked first (as ``verify check`` does) and its counterexample is
+explained: then the code is the check's (0 meets the spec, 1 fail, 3 inconclusive).
+"""
+
+from __future__ import annotations
+
+import json
+
+import click
+
+from verify.errors import InputError
+
+
+def register(cli: click.Group) -> click.Group:
+    """Add ``explain`` to ``cli`` (a second call changes nothing)."""
+    if "explain" not in cli.commands:
+        cli.add_command(explain_cmd)
+    return cli
+
+
+@click.command("explain")
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@click.option("--spec", help='What the outputs must equal, e.g. "{cout, sum} = a + b + cin". '
+              "Default: inferred from port names and widths.")
+@click.option("--input", "input_text", metavar="PORT=V,...",
+              help="The vector to explain, e.g. a=5,b=0x1f,cin=1 (ports left out are 0). "
+                   "Default: check the design and explain its counterexample.")
+@click.option("--vcd", "vcd_path", metavar="FILE", help="Write the vector (and up to 7 other "
+              "failing ones) as a VCD waveform.")
+@click.option("--dot", "dot_path", metavar="FILE", help="Write the fan-in cone of the first wrong "
+              "output as Graphviz DOT (and SVG beside it when 'dot' is installed).")
+@click.option("--vectors", type=click.IntRange(64, 1 << 16), default=2048, show_default=True,
+              help="Vectors simulated to rank the suspects.")
+@click.option("--seed", type=int, default=1, show_default=True)
+@click.option("--top", "top_module", help="Verilog: the top module.")
+@click.option("--param", "params", multiple=True, metavar="NAME=V",
+              help="Verilog: override a parameter.")
+@click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder.")
+@click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define.")
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object.")
+def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top_module, params,
+                include_dirs, defines, as_json):
+    """Show every bit's expected and actual sum and carry for one vector, the suspect gates and
+    the path along which the first wrong value travels."""
+    try:
+        return _explain(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top_module,
+                        params, include_dirs, defines, as_json)
+    except InputError as e:
+        if as_json:
+            click.echo(json.dumps({"ok": False, "verdict": "error", "error": str(e)}))
+        click.echo(f"error: {e}", err=True)
+        return 2
+
+
+def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, top_module, params,
+             include_dirs, defines, as_json) -> int:
+    from verify import diagnose
+    from verify.check import check, resolve_spec
+    from verify.cli import parse_defines, parse_params
+    from verify.formats import load
+    from verify.reports import render_text as check_text
+
+    point = {}
+    for name, values in parse_params(params).items():
+        if len(values) != 1:
+            raise InputError(f"--param {name}: explain takes one value per parameter")
+        point[name] = values[0]
+    design = load(list(paths), top=top_module, params=point, include_dirs=include_dirs,
+                  defines=parse_defines(defines))
+    the_spec = resolve_spec(design, spec_text)
+    checked = None
+    if input_text is not None:
+        inputs = diagnose.parse_inputs(input_text, design)
+    else:
+        checked = check(design, the_spec, seed=seed)
+        if checked.counterexample is None:
+            if as_json:
+                click.echo(json.dumps({**checked.to_json(), "explained": None}, indent=2))
+            else:
+                click.echo(check_text(checked))
+                click.echo("\nnothing to explain: no counterexample. Give --input to follow one "
+                           "vector through the design.")
+            return checked.exit_code
+        inputs = checked.counterexample.inputs
+    findings = diagnose.explain(design, the_spec, inputs, vcd_path=vcd_path, dot_path=dot_path,
+                                vectors=vectors, seed=seed)
+    from verify.sim import Simulator
+
+    full = {p.name: inputs.get(p.name, 0) for p in design.inputs}
+    expected = the_spec.evaluate(full)
+    actual = Simulator(design).evaluate(full)
+    right = all(expected[p.name] == actual[p.name] for p in design.outputs)
+    code = (0 if right else 1) if checked is None else checked.exit_code
+    if as_json:
+        out = {"design": design.name, "origin": design.origin, "spec": the_spec.text,
+               "spec_inferred": the_spec.inferred, "inputs": full,
+               "expected": {p.name: expected[p.name] for p in design.outputs},
+               "actual": {p.name: actual[p.name] for p in design.outputs},
+               "right_on_this_vector": right, **findings}
+        if checked is not None:
+            out["check"] = checked.to_json()
+        click.echo(json.dumps(out, indent=2))
+        return code
+    from verify.result import Counterexample
+
+    cex = Counterexample(full, {p.name: expected[p.name] for p in design.outputs},
+                         {p.name: actual[p.name] for p in design.outputs})
+    where = f"  ({design.origin})" if design.origin else ""
+    click.echo(f"design  {design.name}{where}")
+    how = "  (inferred from port names and widths)" if the_spec.inferred else ""
+    click.echo(f"spec    {the_spec.text}{how}")
+    if checked is not None:
+        click.echo(f"check   {checked.verdict.value.upper()}: {checked.coverage}")
+    given = "" if input_text is None else (
+        "  (not given, so 0: " + ", ".join(n for n in full if n not in inputs) + ")"
+        if any(n not in inputs for n in full) else "")
+    click.echo(f"vector  {', '.join(f'{k}={v}' for k, v in full.items())}{given}")
+    click.echo("result  " + ("every output is what the spec expects" if right else
+                             "wrong: " + ", ".join(
+                                 f"{p.name} is {actual[p.name]}, expected {expected[p.name]}"
+                                 for p in design.outputs if actual[p.name] != expected[p.name])))
+    for line in diagnose.render_text(design, the_spec, cex, findings):
+        click.echo(line)
+    return code

@@ -1,0 +1,425 @@
+"""Finding the gate that goes wrong first: signatures, single-net repair and ranking.
+
+Over a few thousand vectors (the counterexample, its one-bit neighbours, propagate runs aimed at
+long carry chains, and seeded uniform ones), every net of the design is simulated bit-parallel
+(bit j of a net's word is its value in vector j) and its word is looked up among the reference
+functions of addition (``diagnose_model``): a net whose word is one of them *behaves like part of
+an adder*; one whose word is none of them *breaks from every reference function*.
+
+Then, for each net that reaches every wrong output bit, the design is re-simulated with that net's
+value flipped (only its fan-out cone is recomputed). Vectors where the flip makes every output
+right, and vectors that were right and stay right, say which value the net would need: a net is a
+*repair point* when some value on every vector makes all outputs right. The output of a single
+miswired gate is always a repair point (give it the value the correct gate would give), and so is
+every net that all of its wrong values must pass through; the earliest of them is the origin.
+
+Ranking (``score`` in 0..1): the fraction of failing vectors a change of the net repairs, times
+0.4 when the net's word is itself a reference function (it behaves like an adder signal, so the
+fault is more likely elsewhere), divided by one plus the number of repair points upstream of it
+that break from every reference function (the wrong value started earlier). Without a model
+(specs other than A + B + c) only the repair fraction and the order count.
+"""
+
+from __future__ import annotations
+
+import random
+from dataclasses import dataclass, field
+from typing import Mapping, Sequence
+
+from verify.diagnose_model import AdderModel, Table, detect, table
+from verify.netlist import CONST0, CONST1, Netlist
+from verify.sim import Simulator, pack
+
+#: vectors simulated for a diagnosis (the counterexample and its neighbours come on top)
+DEFAULT_VECTORS = 2048
+HEALTHY_WEIGHT = 0.4
+
+
+def _popcount(x: int) -> int:
+    return bin(x).count("1")
+
+
+def _eval(op: str, xs: Sequence[int], M: int) -> int:
+    if op == "and" or op == "nand":
+        r = xs[0]
+        for x in xs[1:]:
+            r &= x
+        return r ^ M if op == "nand" else r
+    if op == "or" or op == "nor":
+        r = xs[0]
+        for x in xs[1:]:
+            r |= x
+        return r ^ M if op == "nor" else r
+    if op == "xor" or op == "xnor":
+        r = xs[0]
+        for x in xs[1:]:
+            r ^= x
+        return r ^ M if op == "xnor" else r
+    if op == "not":
+        return xs[0] ^ M
+    if op == "buf":
+        return xs[0]
+    if op == "mux":
+        s, d0, d1 = xs
+        return d0 ^ (s & (d0 ^ d1))
+    if op == "maj":
+        x, y, z = xs
+        return (x & y) | (z & (x | y))
+    if op == "const0":
+        return 0
+    if op == "const1":
+        return M
+    raise ValueError(f"unknown op {op}")  # pragma: no cover - validate() rejects it
+
+
+@dataclass
+class Suspect:
+    net: str
+    op: str
+    inputs: tuple[str, ...]
+    source: str | None
+    score: float
+    repairs: float  # fraction of failing vectors a change of this net repairs
+    behaves_like: list[str]  # reference functions its word equals
+    should_be: list[str]  # reference functions equal to the value it would need
+    must_change: int  # vectors where its value must change
+    upstream: int  # repair points upstream that break from every reference function
+    order: int  # position in topological order
+    why: str = ""
+    local: str | None = None  # one change at this gate that gives the value it needs
+
+    def to_json(self, table: Table | None = None) -> dict:
+        out = {"net": self.net, "op": self.op, "inputs": list(self.inputs),
+               "score": round(self.score, 4), "source": self.source,
+               "repairs": round(self.repairs, 4), "must_change_vectors": self.must_change,
+               "behaves_like": self.behaves_like, "should_be": self.should_be,
+               "local_change": self.local, "why": self.why}
+        return out
+
+
+@dataclass
+class Analysis:
+    """Everything the diagnosis computed over its vectors; vector 0 is the one explained."""
+
+    design: Netlist
+    model: AdderModel | None
+    vectors: list[dict[str, int]]
+    mask: int
+    values: dict[str, int]  # net -> word (the design as it is)
+    expected: dict[str, int]  # output bit -> word (the spec's reference)
+    failing: int  # word: vectors where some output differs
+    wrong_bits: list[str]  # output bits that differ on some vector
+    table: Table | None
+    model_words: dict = field(default_factory=dict)
+    suspects: list[Suspect] = field(default_factory=list)
+    repaired: dict[str, int] = field(default_factory=dict)  # values with the top suspect fixed
+    candidates_tried: int = 0
+
+    @property
+    def count(self) -> int:
+        return len(self.vectors)
+
+    def failing_count(self) -> int:
+        return _popcount(self.failing)
+
+    def bit(self, net: str, j: int = 0, repaired: bool = False) -> int:
+        src = self.repaired if repaired and self.repaired else self.values
+        if net == CONST0:
+            return 0
+        if net == CONST1:
+            return 1
+        return src[net] >> j & 1
+
+
+def make_vectors(design: Netlist, first: Sequence[Mapping[str, int]], model: AdderModel | None,
+                 count: int = DEFAULT_VECTORS, seed: int = 1) -> list[dict[str, int]]:
+    """The vectors: ``first`` as given, each first vector's one-bit neighbours, propagate runs
+    over every (start, length) when they fit in half the budget (else sampled), uniform ones."""
+    rng = random.Random(seed)
+    ports = [(p.name, p.width) for p in design.inputs]
+    out: list[dict[str, int]] = []
+    seen: set[tuple] = set()
+
+    def add(v: Mapping[str, int]) -> None:
+        v = {n: int(v.get(n, 0)) & ((1 << w) - 1) for n, w in ports}
+        key = tuple(v[n] for n, _ in ports)
+        if key not in seen:
+            seen.add(key)
+            out.append(v)
+
+    for v in first:
+        add(v)
+    for v in list(first)[:4]:
+        for n, w in ports:
+            for i in range(w):
+                add({**v, n: v.get(n, 0) ^ (1 << i)})
+    runs_budget = count // 2
+    if model is not None:
+        n = model.width
+        pairs = [(s, L) for s in range(n) for L in range(1, n - s + 1)]
+        if 2 * len(pairs) > runs_budget:
+            pairs = rng.sample(pairs, runs_budget // 2)
+        mask = (1 << n) - 1
+        for s, L in pairs:
+            for cin in (0, 1):
+                A = rng.getrandbits(n)
+                run = ((1 << L) - 1) << s
+                # B's operand bits are the complement of A's over the run: p = 1 there
+                Bop = (A ^ run) & run | (rng.getrandbits(n) & ~run & mask)
+                if s > 0 and rng.random() < 0.5:  # a carry generated just below the run
+                    A |= 1 << (s - 1)
+                    Bop |= 1 << (s - 1)
+                v = {n_: rng.getrandbits(w) for n_, w in ports}
+                v[model.a] = A ^ (mask if model.a_inv else 0)
+                flip = mask if model.b_inv else 0
+                if model.b_xor and v.get(model.b_xor, 0) & 1:
+                    flip ^= mask
+                v[model.b] = Bop ^ flip
+                if model.carry not in ("0", "1"):
+                    v[model.carry] = cin ^ int(model.carry_inv)
+                add(v)
+    while len(out) < count:
+        add({n: rng.getrandbits(w) for n, w in ports})
+        if len(seen) >= 2 ** sum(w for _, w in ports):
+            break
+    return out
+
+
+def analyse(design: Netlist, spec, first: Sequence[Mapping[str, int]], *,
+            count: int = DEFAULT_VECTORS, seed: int = 1, top: int = 10,
+            model: AdderModel | None | str = "detect") -> Analysis:
+    """Simulate, match signatures, try single-net repairs and rank the suspects."""
+    if model == "detect":
+        model = detect(design, spec)
+    vectors = make_vectors(design, first, model, count, seed)
+    N = len(vectors)
+    M = (1 << N) - 1
+    words = pack(design, vectors)
+    values = Simulator(design).run_all(words, M)
+    ref = spec.reference()
+    ref_out = Simulator(ref).run(pack(ref, vectors), M)
+    expected = dict(zip(ref.output_bits, ref_out))
+    failing = 0
+    wrong = []
+    for b in design.output_bits:
+        d = values[b] ^ expected[b]
+        if d:
+            wrong.append(b)
+            failing |= d
+    tab, mwords = (table(model, values, M) if model is not None else (None, {}))
+    an = Analysis(design, model, vectors, M, values, expected, failing, wrong, tab, mwords)
+    if failing:
+        _rank(an, top)
+    return an
+
+
+class _Graph:
+    """Index-based view of a netlist for re-simulating fan-out cones."""
+
+    def __init__(self, design: Netlist):
+        self.design = design
+        self.gates = design.ordered_gates
+        self.nets = [CONST0, CONST1, *design.input_bits, *(g.output for g in self.gates)]
+        self.index = {n: k for k, n in enumerate(self.nets)}
+        self.first_gate = 2 + len(design.input_bits)
+        self.gate_ins = [[self.index[i] for i in g.inputs] for g in self.gates]
+        self.users: list[list[int]] = [[] for _ in self.nets]
+        for gpos, ins in enumerate(self.gate_ins):
+            for k in set(ins):
+                self.users[k].append(gpos)
+        self.outputs = [self.index[b] for b in design.output_bits]
+
+    def cone(self, k: int) -> list[int]:
+        """Gate positions downstream of net k, in topological order."""
+        seen: set[int] = set()
+        stack = list(self.users[k])
+        while stack:
+            gpos = stack.pop()
+            if gpos in seen:
+                continue
+            seen.add(gpos)
+            stack.extend(self.users[self.first_gate + gpos])
+        return sorted(seen)
+
+    def reach_outputs(self) -> list[int]:
+        """net index -> bitset of output positions it reaches."""
+        out_pos = {k: 1 << n for n, k in enumerate(self.outputs)}
+        reach = [0] * len(self.nets)
+        for k, bit in out_pos.items():
+            reach[k] |= bit
+        for gpos in range(len(self.gates) - 1, -1, -1):
+            r = reach[self.first_gate + gpos]
+            for k in self.gate_ins[gpos]:
+                reach[k] |= r
+        return reach
+
+    def ancestors(self) -> list[int]:
+        """net index -> bitset of net indices in its fan-in (itself excluded)."""
+        anc = [0] * len(self.nets)
+        for gpos, ins in enumerate(self.gate_ins):
+            a = 0
+            for k in ins:
+                a |= anc[k] | (1 << k)
+            anc[self.first_gate + gpos] = a
+        return anc
+
+    def simulate_forced(self, base: list[int], k: int, word: int, M: int,
+                        cone: list[int] | None = None) -> list[int]:
+        vals = list(base)
+        vals[k] = word
+        ops = self.gates
+        first = self.first_gate
+        for gpos in (cone if cone is not None else self.cone(k)):
+            vals[first + gpos] = _eval(ops[gpos].op, [vals[i] for i in self.gate_ins[gpos]], M)
+        return vals
+
+
+def _rank(an: Analysis, top: int) -> None:
+    G = _Graph(an.design)
+    M = an.mask
+    base = [0, M] + [an.values[n] for n in G.nets[2:]]
+    exp = [an.expected[b] for b in an.design.output_bits]
+    fail = an.failing
+    nfail = _popcount(fail)
+    reach = G.reach_outputs()
+    need = 0
+    for n, b in enumerate(an.design.output_bits):
+        if b in an.wrong_bits:
+            need |= 1 << n
+    gate_nets = range(G.first_gate, len(G.nets))
+    full = [k for k in gate_nets if reach[k] & need == need]
+    pool = full if full else [k for k in gate_nets if reach[k] & need]
+    results = {}
+    for k in pool:
+        cone = G.cone(k)
+        vals = G.simulate_forced(base, k, base[k] ^ M, M, cone)
+        diff = 0
+        for o, e in zip(G.outputs, exp):
+            diff |= vals[o] ^ e
+        ok_flip = ~diff & M
+        fixed = fail & ok_flip
+        if not fixed:
+            continue
+        results[k] = (fixed, ok_flip)
+    an.candidates_tried = len(pool)
+    if not results:
+        return
+    anc = G.ancestors()
+    healthy = {k: bool(an.table and an.table.matches(base[k])) for k in results}
+    exact = {k for k, (fixed, _) in results.items() if fixed == fail}
+    breaking = 0  # bitset of repair points that break from every reference function
+    for k in (exact or results):
+        if not healthy[k]:
+            breaking |= 1 << k
+    # the local test, for the repair points that could explain every failing vector (or, when
+    # none can, the best partial ones): can one change at this gate give the value it needs?
+    prelim = sorted(results, key=lambda k: (-_popcount(results[k][0]), k))
+    local_for = set(exact) if exact else set(prelim[:LOCAL_TESTS])
+    if len(local_for) > LOCAL_TESTS:
+        local_for = set(sorted(local_for)[:LOCAL_TESTS])
+    suspects = []
+    for k, (fixed, ok_flip) in results.items():
+        frac = _popcount(fixed) / nfail
+        upstream = _popcount(anc[k] & breaking)
+        g = G.gates[k - G.first_gate]
+        required = base[k] ^ fixed
+        care = fixed | (~fail & M & ~ok_flip)
+        change = _local_change(G, base, k, required, care, M) if k in local_for else None
+        score = (frac * (HEALTHY_WEIGHT if healthy[k] else 1.0)
+                 * (1.0 if change else NO_LOCAL_WEIGHT) / (1 + upstream))
+        sus = Suspect(g.output, g.op, g.inputs, g.source, score, frac,
+                      an.table.matches(base[k])[:3] if an.table else [], [],
+                      _popcount(fixed), upstream, k)
+        sus.local = change
+        suspects.append(sus)
+    suspects.sort(key=lambda s: (-s.score, s.order))
+    suspects = suspects[:top + 4]
+    for s in suspects:
+        k = G.index[s.net]
+        fixed, ok_flip = results[k]
+        required = base[k] ^ fixed
+        care = fixed | (~fail & M & ~ok_flip)
+        if an.table is not None:
+            s.should_be = an.table.matches_on(required, care, near=base[k])
+    # equal scores: a net that should carry a plain reference function before one that should
+    # carry a complement, then the earlier net
+    suspects.sort(key=lambda s: (-round(s.score, 9),
+                                 bool(s.should_be) and s.should_be[0].startswith("~"), s.order))
+    suspects = suspects[:top]
+    for s in suspects:
+        s.why = _why(s, an, nfail)
+    an.suspects = suspects
+    best = suspects[0]
+    k = G.index[best.net]
+    vals = G.simulate_forced(base, k, base[k] ^ results[k][0], M)
+    an.repaired = dict(zip(G.nets[2:], vals[2:]))
+
+
+#: how many repair points get the local test at most
+LOCAL_TESTS = 40
+#: weight of a repair point where no single change at the gate gives the value it needs
+NO_LOCAL_WEIGHT = 0.3
+_SAME_ARITY = {1: ("buf", "not"), 2: ("and", "or", "xor", "nand", "nor", "xnor"),
+               3: ("and", "or", "xor", "nand", "nor", "xnor", "mux", "maj")}
+
+
+def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, M: int
+                  ) -> str | None:
+    """One change at the gate driving net k that makes it carry ``required`` on ``care``:
+    a constant output, another op, an inverted input, or an input taken from another net."""
+    gpos = k - G.first_gate
+    g = G.gates[gpos]
+    ins = G.gate_ins[gpos]
+    want = required & care
+
+    def gives(word: int) -> bool:
+        return (word & care) == want
+
+    if base[k] & care in (0, care) and g.op in ("const0", "const1"):
+        return f"it is tied to {0 if g.op == 'const0' else 1}: its value never changes"
+    stuck = (f"it is stuck at {1 if base[k] else 0} over every vector"
+             if base[k] in (0, M) and not gives(base[k]) else None)
+    if not ins:
+        return stuck
+    xs = [base[i] for i in ins]
+    arity = len(xs) if len(xs) <= 3 else 2
+    for op in _SAME_ARITY[arity]:
+        if op != g.op and not (op in ("mux", "maj") and len(xs) != 3) and gives(_eval(op, xs, M)):
+            return f"its op should be {op}, not {g.op}"
+    for pos in range(len(xs)):
+        trial = list(xs)
+        trial[pos] ^= M
+        if gives(_eval(g.op, trial, M)):
+            return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted"
+    for pos in range(len(xs)):
+        trial = list(xs)
+        for other in range(k):  # earlier nets only: a replacement cannot make a loop
+            if other == ins[pos]:
+                continue
+            trial[pos] = base[other]
+            if gives(_eval(g.op, trial, M)):
+                return (f"input {pos + 1} should come from {G.nets[other]}, "
+                        f"not {G.nets[ins[pos]]}")
+    return stuck
+
+
+def _why(s: Suspect, an: Analysis, nfail: int) -> str:
+    parts = []
+    if s.repairs >= 1.0:
+        parts.append(f"changing this net alone makes every output right on all {an.count} "
+                     f"vectors ({s.must_change} need a different value)")
+    else:
+        parts.append(f"changing this net alone repairs {s.must_change} of {nfail} failing vectors")
+    t = an.table
+    if t is not None:
+        if s.behaves_like:
+            parts.append(f"its value equals {s.behaves_like[0]} ({t.explain(s.behaves_like[0])})")
+        else:
+            parts.append("its value matches no reference function of addition")
+        if s.should_be:
+            parts.append(f"it should carry {s.should_be[0]} ({t.explain(s.should_be[0])})")
+    if s.local:
+        parts.append(f"one change at this gate fixes it: {s.local}")
+    if s.upstream:
+        parts.append(f"{s.upstream} earlier net{'s also diverge' if s.upstream > 1 else ' also diverges'}")
+    return "; ".join(parts)
