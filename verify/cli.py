@@ -103,7 +103,7 @@ def design_units(paths: tuple[str, ...]) -> list[list[Path]]:
     if len(given) == 1 and given[0].is_dir():
         files = sorted(p for p in given[0].rglob("*")
                        if p.is_file() and p.suffix in (".json", *VERILOG_SUFFIXES)
-                       and not any(part.startswith(".") for part in p.parts))
+                       and not any(part.startswith(".") for part in p.relative_to(given[0]).parts))
         if not files:
             raise InputError("no .json, .v or .sv design files in this folder", str(given[0]))
         return [[f] for f in files]
