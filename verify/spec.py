@@ -186,9 +186,12 @@ def _lex_number(text: str, start: int, tokens: list[Token]) -> int:
                          "a spec says which number each output must be")
         if d != "_" and _DIGIT_VALUE.get(d, 99) >= radix:
             raise _error(text, m.start(3) + k, f"{d!r} is not a {base_name} digit in {lexeme!r}")
-    if len(clean) * radix.bit_length() > 4 * MAX_BITS:
+    significant = len(clean.lstrip("0"))
+    if (significant - 1) * {2: 1, 8: 3, 10: 3, 16: 4}[radix] > MAX_BITS:
         raise _error(text, start, f"literal {lexeme[:20]!r}... is longer than {MAX_BITS} bits")
     value = int(clean, radix)
+    if len(lexeme) > 24:
+        lexeme = lexeme[:20] + "..."
     if size is not None:
         if size > MAX_BITS:
             raise _error(text, start, f"literal {lexeme!r}: a size over {MAX_BITS} bits")
