@@ -199,7 +199,9 @@ def _lex_number(text: str, start: int, tokens: list[Token]) -> int:
             raise _error(text, start, f"literal {lexeme!r}: a size must be at least 1")
         if value >= 1 << size:
             raise _error(text, start,
-                         f"literal {lexeme!r}: value {value} does not fit in {size} bit"
+                         f"literal {lexeme!r}: "
+                         f"{f'value {value}' if value.bit_length() <= 64 else 'the value'} "
+                         f"does not fit in {size} bit"
                          f"{'s' if size != 1 else ''}")
     tokens.append(Token("num", lexeme, start, (value, size, bool(signed))))
     return m.end()
