@@ -622,6 +622,7 @@ def test_inferred_adder_is_integer_addition():
     ({"a": 4, "b": 4, "cin": 1, "m": 1}, {"s": 4}, "several 1-bit inputs (cin, m)"),
     ({"a": 8, "b": 8, "m": 1}, {"y": 8}, "the 1-bit input m looks like a mode or control bit"),
     ({"a": 8, "b": 8, "sub": 1}, {"y": 8, "co": 1}, "the 1-bit input sub looks like a mode"),
+    ({"a": 1, "b": 1, "en": 1}, {"s": 1, "co": 1}, "the 1-bit input en looks like a mode"),
     ({"a": 1, "b": 1, "cin": 1, "d": 1}, {"s": 1}, "4 one-bit inputs"),
     ({"a": 1, "b": 1, "ci": 1, "cin": 1}, {"s": 1}, "4 one-bit inputs"),
     ({"a": 1, "ci": 1, "cin": 1}, {"s": 1, "c": 1}, "several inputs look like a carry-in (ci, cin)"),

@@ -1535,9 +1535,6 @@ def infer(design: Netlist) -> Spec:
             raise refuse(f"several 1-bit inputs ({_plist(single)}) besides the operands "
                          f"{a.name}, {b.name}: cannot tell which is the carry-in")
         cin = single[0] if single else None
-        if cin is not None and not _looks(cin.name, _CARRY_IN) and _looks(cin.name, _CONTROL):
-            raise refuse(f"the 1-bit input {cin.name} looks like a mode or control bit, not a "
-                         "carry-in")
     else:
         n = 1
         if len(single) not in (2, 3):
@@ -1551,11 +1548,14 @@ def infer(design: Netlist) -> Spec:
                 raise refuse(f"several inputs look like a carry-in ({_plist(named)})")
             cin = named[0] if named else single[2]
             a, b = [p for p in single if p is not cin]
+    if cin is not None and not _looks(cin.name, _CARRY_IN) and _looks(cin.name, _CONTROL):
+        raise refuse(f"the 1-bit input {cin.name} looks like a mode or control bit, not a "
+                     "carry-in")
 
     outs = list(design.outputs)
     full = [p for p in outs if p.width == n + 1]
     summ = [p for p in outs if p.width == n] if n > 1 else []
-    ones = [p for p in outs if p.width == 1] if n > 1 else [p for p in outs if p.width == 1]
+    ones = [p for p in outs if p.width == 1]
     odd = [p for p in outs if p not in full and p not in summ and p not in ones]
     if odd:
         raise refuse(f"output{'s' if len(odd) > 1 else ''} {_plist(odd)} "
