@@ -93,10 +93,26 @@ def _stmt(rng: random.Random, depth: int, targets: list[str]) -> list[str]:
             out += ["end else begin"] + _stmt(rng, depth - 1, targets)
         return out + ["end"]
     if k < 0.8:
-        kind = rng.choice(["case", "casez"])
-        out = [f"{kind} (b[1:0])"]
-        for v in rng.sample(range(4), rng.randint(1, 4)):
-            pat = f"2'd{v}" if kind == "case" else rng.choice([f"2'd{v}", "2'b1?", "2'b?0"])
+        kind = rng.choice(["case", "casez", "casex"])
+        # Two Icarus Verilog 11 quirks kept out of the comparison (IEEE 1800 12.5 and slang
+        # agree with us; iverilog's own == agrees too): it sign-extends a signed selector of a
+        # casez/casex with wildcard items even when an item is unsigned (sb = 3'b101 against
+        # 5'b0?11? and 5'd5), and it zero-extends a $signed(...) selector against signed items
+        # ($signed(2'b10) matches 5'sd2). So signed selectors are plain nets in plain case only.
+        signed_ok = kind == "case"
+        sel = rng.choice(["b[1:0]", "a[2:0]", "b"] + (["sb"] if signed_ok else []))
+        out = [f"{kind} ({sel})"]
+        for v in rng.sample(range(8), rng.randint(1, 4)):
+            w = rng.randint(1, 5)
+            r = rng.random()
+            if r < 0.3:
+                pat = f"{w}'{'s' if rng.random() < 0.5 else ''}d{v % (1 << w)}"
+            elif r < 0.45:
+                pat = f"-{v}"  # a negative int: 32 bits, signed
+            elif kind != "case" and r < 0.8:
+                pat = f"{w}'b" + "".join(rng.choice("01?") for _ in range(w))
+            else:
+                pat = f"2'd{v % 4}"
             out += [f"  {pat}: begin"] + _stmt(rng, depth - 1, targets) + ["  end"]
         if rng.random() < 0.5:
             out += ["  default: begin"] + _stmt(rng, depth - 1, targets) + ["  end"]

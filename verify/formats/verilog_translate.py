@@ -1354,14 +1354,17 @@ class Translator:
         items = list(s.items)
         all_exprs = [x for it in items for x in it.expressions]
         w = max([self.width(sel_e.type, s)] + [self.width(x.type, x) for x in all_exprs])
-        sel = self.fit(self.ev(sel_e), w, sel_e.type.isSigned)
+        # IEEE 1800 12.5: every case expression is extended to the widest one, with sign
+        # extension only when all of them are signed
+        signed = sel_e.type.isSigned and all(x.type.isSigned for x in all_exprs)
+        sel = self.fit(self.ev(sel_e), w, signed)
         wild = {CC.WildcardJustZ: "z?", CC.WildcardXOrZ: "xz?"}.get(cond, "")
         matches = []
         covered: set[int] | None = set() if w <= 12 else None
         for it in items:
             terms = []
             for x in it.expressions:
-                terms.append(self.case_match(sel, x, w, wild, covered))
+                terms.append(self.case_match(sel, x, w, wild, covered, signed))
             matches.append(self.truth(terms))
         full = covered is not None and len(covered) == (1 << w)
         base = self._branch()
@@ -1392,9 +1395,9 @@ class Translator:
         f.env, f.nonblocking = dict(acc[0]), dict(acc[1])
         f.returned = acc_ret
 
-    def case_match(self, sel: list[str], x, w: int, wild: str, covered) -> str:
+    def case_match(self, sel: list[str], x, w: int, wild: str, covered, signed: bool) -> str:
         b = self.b
-        chars = _literal_chars(x, w)
+        chars = _literal_chars(x, w, signed)
         if chars is not None:
             terms = []
             care_mask, val = 0, 0
@@ -1419,7 +1422,7 @@ class Translator:
                                 v |= 1 << i
                         covered.add(v)
             return b.and_(*terms) if terms else CONST1
-        r = self.fit(self.ev(x), w, x.type.isSigned)
+        r = self.fit(self.ev(x), w, signed)
         if any(v in self.xnets for v in r):
             raise self.unsupported("a case item with x or z bits that is not a constant", x)
         return self.compare(BO.Equality, sel, r, False, x)
@@ -1588,7 +1591,7 @@ def _sv_chars(sv) -> list[str]:
     return list(reversed(s))[:sv.bitWidth]
 
 
-def _literal_chars(x, w: int) -> list[str] | None:
+def _literal_chars(x, w: int, ext_signed: bool) -> list[str] | None:
     """A case item that is a literal (under conversions): its bits as 0/1/x/z/? at width w."""
     convs = []
     while x.kind == EK.Conversion:
@@ -1609,13 +1612,13 @@ def _literal_chars(x, w: int) -> list[str] | None:
     for c in reversed(convs):
         cw = c.type.bitWidth
         if len(chars) < cw:
-            ext = chars[-1] if chars and signed else "0"
+            ext = chars[-1] if chars and _extends_signed(c) else "0"
             chars = chars + [ext] * (cw - len(chars))
         else:
             chars = chars[:cw]
         signed = c.type.isSigned
     if len(chars) < w:
-        ext = chars[-1] if chars and signed else "0"
+        ext = chars[-1] if chars and signed and ext_signed else "0"
         chars = chars + [ext] * (w - len(chars))
     return chars[:w]
 
