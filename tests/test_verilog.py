@@ -133,7 +133,7 @@ CROSS = [
     ("larkspur_comb_rca.sv", {}), ("larkspur_csel.sv", {"W": 12, "B": 4}),
     ("larkspur_addsub.v", {}), ("larkspur_inc.v", {}), ("larkspur_add3.sv", {"W": 6}),
     ("larkspur_sadd_flags.sv", {}), ("larkspur_rca_bug.v", {}), ("larkspur_mix.sv", {}),
-    ("larkspur_rules.sv", {}),
+    ("larkspur_rules.sv", {}), ("larkspur_case_widths.sv", {}),
 ]
 
 
@@ -516,3 +516,12 @@ def test_edited_include_file_is_parsed_again(tmp_path):
     assert load([f], include_dirs=[str(inc)]).width("a") == 4
     header.write_text("`define LW 12\n")
     assert load([f], include_dirs=[str(inc)]).width("a") == 12
+
+
+def test_case_width_and_sign_rules_against_hand_values():
+    """IEEE 1800-2017 12.5 (from memory): case expressions extend to the widest, and sign-extend
+    only when all are signed."""
+    sim = Simulator(corpus("larkspur_case_widths.sv"))
+    assert sim.evaluate({"a": 15, "s": 0}) == {"y": 0, "z": 0, "q": 2, "n": 4}
+    assert sim.evaluate({"a": 7, "s": 6}) == {"y": 3, "z": 2, "q": 2, "n": 3}
+    assert sim.evaluate({"a": 2, "s": 7}) == {"y": 0, "z": 0, "q": 3, "n": 1}  # s = -1 is 7 here
