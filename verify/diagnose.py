@@ -167,7 +167,7 @@ def _sum_positions(design: Netlist, model: AdderModel) -> dict[str, int]:
     for p in design.outputs:
         kind, lo = model.outputs.get(p.name, ("", 0))
         for i, b in enumerate(p.bits):
-            out[b] = lo + i if kind == "slice" else model.width
+            out[b] = lo + i if kind.startswith("slice") else model.width
     return out
 
 
@@ -223,10 +223,13 @@ def _bits(an: Analysis, cex: Counterexample) -> dict[str, Any] | None:
     carries = m.carries(cex.inputs)
     pos = _sum_positions(an.design, m)
     by_pos: dict[int, str] = {}
+    inverted: set[str] = set()
     for b, k in pos.items():
         kind, _ = m.outputs[_port_of(an.design, b)]
-        if kind == "slice":
+        if kind.startswith("slice"):
             by_pos.setdefault(k, b)
+        if kind == "slice_inv":
+            inverted.add(b)
     carry_nets = _carry_nets(an)
     rows = []
     for i in range(n + 1):
@@ -243,8 +246,9 @@ def _bits(an: Analysis, cex: Counterexample) -> dict[str, Any] | None:
         out_bit = by_pos.get(i)
         if out_bit is not None:
             row["output"] = out_bit
-            row["sum_expected"] = an.expected[out_bit] & 1
-            row["sum_actual"] = an.values[out_bit] & 1
+            inv = int(out_bit in inverted)  # the row shows bits of the sum, not the port
+            row["sum_expected"] = (an.expected[out_bit] & 1) ^ inv
+            row["sum_actual"] = (an.values[out_bit] & 1) ^ inv
         rows.append(row)
     return {"width": n, "operands": list(m.operand_names()), "rows": rows}
 
@@ -319,10 +323,9 @@ def _model_outputs(an: Analysis) -> dict[str, str] | None:
         kind, lo = an.model.outputs[p.name]
         if kind == "overflow":
             out[p.name] = f"signed overflow of {text}"
-        elif p.width == 1:
-            out[p.name] = f"bit {lo} of {text}"
         else:
-            out[p.name] = f"bits {lo + p.width - 1}..{lo} of {text}"
+            what = f"bit {lo}" if p.width == 1 else f"bits {lo + p.width - 1}..{lo}"
+            out[p.name] = f"{what} of {text}" if kind == "slice" else f"NOT {what} of {text}"
     return out
 
 

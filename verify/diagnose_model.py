@@ -4,7 +4,8 @@ A spec is matched, by evaluating it on Python integers, against the form
 ``S = A + B + c`` where ``A`` and ``B`` are two input ports (each possibly inverted, ``B`` possibly
 XORed with a 1-bit mode input, as in an adder/subtractor) and ``c`` is a constant or a 1-bit input
 (possibly inverted); each output port must be a slice of ``S`` (``sum`` is bits 0..n-1, ``cout`` is
-bit n, ``{cout, sum}`` is bits 0..n) or the signed overflow flag. Subtraction ``a - b`` is
+bit n, ``{cout, sum}`` is bits 0..n), the complement of a slice (the borrow out of ``a - b`` is the
+inverted carry out of ``a + ~b + 1``) or the signed overflow flag. Subtraction ``a - b`` is
 ``a + ~b + 1``, so it gets the same model. Where no such form fits (three operands, a product, a
 comparison), ``detect`` returns None and the diagnosis says so.
 
@@ -42,7 +43,8 @@ class AdderModel:
     b_xor: str | None = None  # a 1-bit input XORed into every bit of B (add/subtract)
     carry: str = "0"  # "0", "1" or a 1-bit input port
     carry_inv: bool = False
-    #: output port -> ("slice", lowest bit of S) or ("overflow", 0)
+    #: output port -> ("slice", lowest bit of S), ("slice_inv", lo) for its complement (a borrow
+    #: out), or ("overflow", 0)
     outputs: Mapping[str, tuple[str, int]] = field(default_factory=dict)
     widths: Mapping[str, int] = field(default_factory=dict)  # input port widths
 
@@ -108,6 +110,8 @@ class AdderModel:
             else:
                 w = self.widths[port]
                 out[port] = (S >> lo) & ((1 << w) - 1)
+                if kind == "slice_inv":
+                    out[port] ^= (1 << w) - 1
         return out
 
 
@@ -182,6 +186,13 @@ def _match_outputs(model: AdderModel, outs, vectors, expected) -> dict | None:
             if all((s >> lo) & mask == e[p.name] for s, e in zip(sums, expected)):
                 found = ("slice", lo)
                 break
+        if found is None:  # the complement of a slice: a borrow out is the inverted carry out
+            for lo in range(0, n + 1):
+                if lo + p.width > n + 1:
+                    break
+                if all(((s >> lo) & mask) ^ mask == e[p.name] for s, e in zip(sums, expected)):
+                    found = ("slice_inv", lo)
+                    break
         if found is None and p.width == 1 and n > 1:
             if all(cs[n] ^ cs[n - 1] == e[p.name] for cs, e in zip(carries, expected)):
                 found = ("overflow", 0)
