@@ -525,3 +525,13 @@ def test_case_width_and_sign_rules_against_hand_values():
     assert sim.evaluate({"a": 15, "s": 0}) == {"y": 0, "z": 0, "q": 2, "n": 4}
     assert sim.evaluate({"a": 7, "s": 6}) == {"y": 3, "z": 2, "q": 2, "n": 3}
     assert sim.evaluate({"a": 2, "s": 7}) == {"y": 0, "z": 0, "q": 3, "n": 1}  # s = -1 is 7 here
+
+
+def test_sensitivity_list_is_checked_bit_by_bit(tmp_path):
+    f = write(tmp_path, "part.v", "module part(input [1:0] a, output reg y);\n"
+              "  always @(a[0]) y = a[0] & a[1];\nendmodule\n")
+    with pytest.raises(InputError, match=r"does not name 'a\[1\]'"):
+        load([f])
+    f = write(tmp_path, "full.v", "module full(input [1:0] a, output reg y);\n"
+              "  always @(a[0], a[1]) y = a[0] & a[1];\nendmodule\n")
+    assert [Simulator(load([f])).evaluate({"a": a})["y"] for a in range(4)] == [0, 0, 0, 1]

@@ -40,7 +40,7 @@ _MAX_MUL = 128  # widest '*' translated into gates
 class _Frame:
     """The state of one combinational block (or one inlined function call) being executed."""
 
-    def __init__(self, where: str | None, event_keys: set | None = None):
+    def __init__(self, where: str | None, event_keys: dict | None = None):
         self.env: dict[tuple, list] = {}
         self.written: dict[tuple, set[int]] = {}
         self.reads: dict[tuple, tuple[set[int], str | None]] = {}
@@ -1082,7 +1082,7 @@ class Translator:
                 pass
             elif tc.kind in (TK.SignalEvent, TK.EventList):
                 evs = [tc] if tc.kind == TK.SignalEvent else list(tc.events)
-                events = set()
+                events = {}
                 for ev_ in evs:
                     if ev_.kind != TK.SignalEvent:
                         raise self.unsupported("this event control", ev_)
@@ -1093,7 +1093,7 @@ class Translator:
                     r = self.ref(ev_.expr)
                     if r is None:
                         raise self.unsupported("an event on an expression", ev_)
-                    events.add(r[0])
+                    events.setdefault(r[0], set()).update(o for o in r[2] if o is not None)
             else:
                 raise self.unsupported(f"the timing control {tc.kind.name} in an always block", tc)
             body = body.stmt
@@ -1133,9 +1133,11 @@ class Translator:
                                     f"a value first or add the missing else/default", blk)
                 self.drive(bits[o], v, self.where(blk))
         if f.event_keys is not None:
-            for key in f.reads:
-                if key not in f.event_keys and key not in f.written:
-                    name = self.sigs[key][0].split("[")[0]
+            for key, (offs, _) in f.reads.items():
+                missing = offs - f.event_keys.get(key, set()) - f.written.get(key, set())
+                if missing:
+                    bits = self.sigs[key]
+                    name = key[1].name if len(missing) == len(bits) else bits[min(missing)]
                     raise self.fail(f"the sensitivity list does not name '{name}', which the block "
                                     f"reads: simulation would hold old values (a latch); use "
                                     f"always @* or always_comb", blk)
