@@ -18,7 +18,6 @@ position k (counted from the right-hand bound of the declared range) holds bits 
 from __future__ import annotations
 
 import re
-from typing import Iterable
 
 from pyslang import ast
 
@@ -50,6 +49,7 @@ class _Frame:
         self.event_keys = event_keys
         self.returned = False
         self.parent: _Frame | None = None  # the caller's frame, for an inlined function
+        self.first_write: dict[tuple, str | None] = {}
 
 
 class Translator:
@@ -130,9 +130,6 @@ class Translator:
         if self.inst_hp and hp.startswith(self.inst_hp + "."):
             hp = hp[len(self.inst_hp) + 1:]
         return self.path + hp
-
-    def key(self, sym) -> tuple:
-        return (self.path, sym)
 
     def sig(self, sym, node=None) -> list[str]:
         k = (self.path, sym)
@@ -351,15 +348,15 @@ class Translator:
             bits = self.ev(e)
             vals.append(bits[0] if bits else self.xbit(self.where(e)))
         b = self.b
+        combine = {"and": b.and_, "or": b.or_, "xor": b.xor_}
         if name == "buf":
             v = vals[0]
         elif name == "not":
             v = b.not_(vals[0])
-        elif name in ("and", "or", "xor"):
-            v = b._nary(name, vals) if len(vals) > 1 else vals[0]
-        else:
-            base = b._nary(name[1:] if name != "xnor" else "xor", vals) if len(vals) > 1 else vals[0]
-            v = b.not_(base)
+        elif name in combine:
+            v = combine[name](*vals)
+        else:  # nand, nor, xnor
+            v = b.not_(combine[{"nand": "and", "nor": "or", "xnor": "xor"}[name]](*vals))
         for e in outs:
             if e.kind == EK.Assignment:
                 self.assign_lvalue(e.left, [v] * max(1, self.width(e.left.type, e)), w)
@@ -864,7 +861,7 @@ class Translator:
                UO.BitwiseNor: ("or", True), UO.BitwiseXnor: ("xor", True)}
         if op in red:
             g, inv = red[op]
-            v = b._nary(g, x) if len(x) > 1 else (x[0] if x else {"and": CONST1}.get(g, CONST0))
+            v = {"and": b.and_, "or": b.or_, "xor": b.xor_}[g](*x)
             return self.fit([b.not_(v) if inv else v], self.width(e.type, e), False)
         raise self.unsupported(f"unary operator {op.name}", e)  # pragma: no cover
 
@@ -1128,9 +1125,11 @@ class Translator:
             for o in sorted(offs):
                 v = vals[o] if vals is not None else None
                 if v is None:
+                    at = f.first_write.get(key)
+                    at = f" (assigned at {at})" if at else ""
                     raise self.fail(f"'{bits[o]}' is not assigned on every path through the "
-                                    f"block, which implies a latch (sequential logic); assign it "
-                                    f"a value first or add the missing else/default", blk)
+                                    f"block{at}, which implies a latch (sequential logic); assign "
+                                    f"it a value first or add the missing else/default", blk)
                 self.drive(bits[o], v, self.where(blk))
         if f.event_keys is not None:
             for key, (offs, _) in f.reads.items():
@@ -1274,6 +1273,8 @@ class Translator:
             cur[o] = v
             store[key] = cur
             f.written.setdefault(key, set()).add(o)
+            if key not in f.first_write:
+                f.first_write[key] = self.b.source
 
     def incdec(self, e) -> list[str]:
         if self.frame is None:
@@ -1544,8 +1545,10 @@ class Translator:
                     if g is not None:
                         stack.extend(g.inputs)
                     elif n in self.placeholders:
-                        what = "output" if n == pb else f"net '{n}'"
-                        raise self.fail(f"{what} is never driven (it floats at z) and reaches "
+                        if n == pb:
+                            raise self.fail(f"output '{pb}' is never assigned (it floats at z)",
+                                            where=self.sig_where.get(n))
+                        raise self.fail(f"net '{n}' is never driven (it floats at z) and reaches "
                                         f"output '{pb}'", where=self.sig_where.get(n))
         # 2. name gate outputs after the nets they drive: output ports first
         rename: dict[str, str] = {}
@@ -1769,6 +1772,3 @@ Translator._dispatch = {
     EK.Streaming: Translator._streaming,
 }
 
-
-def iter_bits(values: Iterable[str]) -> list[str]:  # pragma: no cover - kept small on purpose
-    return list(values)
