@@ -133,7 +133,7 @@ CROSS = [
     ("larkspur_comb_rca.sv", {}), ("larkspur_csel.sv", {"W": 12, "B": 4}),
     ("larkspur_addsub.v", {}), ("larkspur_inc.v", {}), ("larkspur_add3.sv", {"W": 6}),
     ("larkspur_sadd_flags.sv", {}), ("larkspur_rca_bug.v", {}), ("larkspur_mix.sv", {}),
-    ("larkspur_rules.sv", {}), ("larkspur_case_widths.sv", {}),
+    ("larkspur_rules.sv", {}), ("larkspur_case_widths.sv", {}), ("larkspur_alu_pkg.sv", {}),
 ]
 
 
@@ -535,3 +535,19 @@ def test_sensitivity_list_is_checked_bit_by_bit(tmp_path):
     f = write(tmp_path, "full.v", "module full(input [1:0] a, output reg y);\n"
               "  always @(a[0], a[1]) y = a[0] & a[1];\nendmodule\n")
     assert [Simulator(load([f])).evaluate({"a": a})["y"] for a in range(4)] == [0, 0, 0, 1]
+
+
+def test_package_enum_case_and_inside(tmp_path):
+    n = corpus("larkspur_alu_pkg.sv")
+    sim = Simulator(n)
+    for a in range(0, 64, 5):
+        for b in range(0, 64, 7):
+            for op in range(4):
+                got = sim.evaluate({"a": a, "b": b, "op": op})
+                want = [(a + b) & 63, (a - b) & 63, a & b, a | b][op]  # Python integers
+                rev = int(format(a, "06b")[::-1], 2)
+                assert got == {"y": want, "big": int(a >= 60), "r": rev ^ (b ^ 63)}
+    n = _fn(tmp_path, "  assign y = a inside {4'd1, 4'd3, b};", "input [3:0] a, b, output y")
+    sim = Simulator(n)
+    assert all(sim.evaluate({"a": a, "b": b})["y"] == int(a in (1, 3, b))
+               for a in range(16) for b in range(16))

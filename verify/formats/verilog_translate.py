@@ -1401,6 +1401,13 @@ class Translator:
     def case_match(self, sel: list[str], x, w: int, wild: str, covered, signed: bool) -> str:
         b = self.b
         chars = _literal_chars(x, w, signed)
+        if chars is None:
+            v = self.try_const(x)  # parameters, enum values, constant expressions
+            if v is not None:
+                xw = x.type.bitWidth
+                chars = ["1" if v >> i & 1 else "0" for i in range(xw)]
+                ext = chars[-1] if chars and signed and x.type.isSigned else "0"
+                chars = (chars + [ext] * max(0, w - xw))[:w]
         if chars is not None:
             terms = []
             care_mask, val = 0, 0
