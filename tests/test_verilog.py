@@ -551,3 +551,14 @@ def test_package_enum_case_and_inside(tmp_path):
     sim = Simulator(n)
     assert all(sim.evaluate({"a": a, "b": b})["y"] == int(a in (1, 3, b))
                for a in range(16) for b in range(16))
+
+
+def test_x_follows_verilog_semantics_through_folding(tmp_path):
+    # IEEE 1364 4.1.10 truth tables (from memory): x & 0 = 0, x | 1 = 1, but x ^ x = x
+    n = _fn(tmp_path, "  wire t = 1'bx;\n  assign y = (t & 1'b0) | (a & (t | 1'b1));",
+            "input a, output y")
+    assert [Simulator(n).evaluate({"a": a})["y"] for a in (0, 1)] == [0, 1]
+    f = write(tmp_path, "xx.v", "module xx(input a, output y);\n  wire t = 1'bx;\n"
+              "  assign y = a | (t ^ t);\nendmodule\n")
+    with pytest.raises(InputError, match="x or z value can reach output 'y'"):
+        load([f])

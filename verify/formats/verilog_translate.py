@@ -23,7 +23,7 @@ from pyslang import ast
 
 from verify.builder import GateBuilder
 from verify.errors import InputError, NetlistError
-from verify.netlist import CONST0, CONST1, Port, bit_name
+from verify.netlist import CONST0, CONST1, Gate, Port, bit_name
 
 EK = ast.ExpressionKind
 SK = ast.SymbolKind
@@ -52,11 +52,40 @@ class _Frame:
         self.first_write: dict[tuple, str | None] = {}
 
 
+class _Builder(GateBuilder):
+    """GateBuilder that keeps Verilog's x semantics while folding.
+
+    Every fold GateBuilder makes is also right for an x input (x & 0 is 0, x | 1 is 1, ~~x is x,
+    s ? d : d is d) except one: a ^ a is x, not 0, when a is x. Nets that carry an x (the x
+    literals and every gate fed by one) are tracked, and for them that fold is not made, so that
+    the check for x reaching an output sees exactly what a simulator would.
+    """
+
+    def __init__(self, *args, **kwargs):
+        super().__init__(*args, **kwargs)
+        self.tainted: set[str] = set()
+
+    def gate(self, op: str, *inputs: str, out: str | None = None) -> str:
+        tainted = self.tainted
+        hit = any(i in tainted for i in inputs)
+        if hit and op in ("xor", "xnor") and len(set(inputs)) < len(inputs):
+            net = out if out is not None else self.fresh()
+            g = Gate(op, tuple(inputs), net, self.source)
+            self.gates.append(g)
+            tainted.add(net)
+            return net
+        before = len(self.gates)
+        net = super().gate(op, *inputs, out=out)
+        if hit and len(self.gates) > before and self.gates[-1].output == net:
+            tainted.add(net)
+        return net
+
+
 class Translator:
     def __init__(self, locator, origin: str):
         self.loc = locator
         self.origin = origin
-        self.b = GateBuilder(prefix="$", fold=True, share=False)
+        self.b = _Builder(prefix="$", fold=True, share=False)
         self.sigs: dict[tuple, list[str]] = {}
         self.sig_where: dict[str, str | None] = {}  # placeholder -> where declared
         self.placeholders: dict[str, None] = {}  # ordered set
@@ -188,6 +217,7 @@ class Translator:
     def xbit(self, where: str | None, what: str = "an x or z value") -> str:
         self._xcount += 1
         n = f"$x{self._xcount}"
+        self.b.tainted.add(n)
         self.xnets[n] = f"{what}"
         self.sig_where[n] = where
         return n
