@@ -78,13 +78,8 @@ def _progress(quiet: bool):
 
 
 def _write(path: str, text: str, what: str) -> None:
-    try:
-        p = Path(path)
-        if p.parent and not p.parent.exists():
-            p.parent.mkdir(parents=True, exist_ok=True)
-        p.write_text(text, encoding="utf-8")
-    except OSError as e:
-        raise InputError(f"cannot write the {what}: {e.strerror or e}", path) from None
+    from verify.outputs import write_text
+    write_text(path, text, what=what, replace_reports=True)
 
 
 @click.command("run")

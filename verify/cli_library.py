@@ -40,9 +40,10 @@ def _architecture_table() -> str:
 @click.option("--format", "fmt", type=click.Choice(["json", "verilog"]), default="json",
               show_default=True, help="Output format.")
 @click.option("-o", "--output", type=click.Path(dir_okay=False), help="Write here, not to stdout.")
+@click.option("--force", is_flag=True, help="Replace the -o file if it exists.")
 @click.option("--list", "list_", is_flag=True, help="List the architectures and their parameters.")
 def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, name, fmt, output,
-                 list_):
+                 force, list_):
     """Write a reference adder ARCH (e.g. kogge-stone) as a JSON netlist or structural Verilog.
 
     Ports: a, b (WIDTH bits), cin; sum (WIDTH bits), cout; v with --overflow.
@@ -71,10 +72,11 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
         from verify.formats.verilog_writer import dumps
         text = dumps(netlist)
     if output:
+        from verify.outputs import write_text
         try:
-            Path(output).write_text(text, encoding="utf-8")
-        except OSError as e:
-            _fail(InputError(f"cannot write: {e.strerror}", output))
+            write_text(output, text, what="design", force=force)
+        except InputError as e:
+            _fail(e)
         click.echo(f"wrote {output}: {netlist.summary()}", err=True)
     else:
         click.echo(text, nl=False)

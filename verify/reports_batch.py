@@ -172,7 +172,7 @@ def render_junit(summary, suite_name: str | None = None) -> str:
     failures = sum(1 for r in summary.records if r["exit_code"] in (1, 3))
     errors = sum(1 for r in summary.records if r["exit_code"] == 2)
     total_time = f"{summary.seconds:.3f}"
-    root = ET.Element("testsuites", name="verify run", tests=str(len(summary.records)),
+    root = ET.Element("testsuites", name="adder-verify run", tests=str(len(summary.records)),
                       failures=str(failures), errors=str(errors), time=total_time)
     suite = ET.SubElement(root, "testsuite", name=_x(suite_name or summary.manifest),
                           tests=str(len(summary.records)), failures=str(failures),

@@ -1,0 +1,43 @@
+"""Files the tool writes never replace a file the user wrote."""
+
+from __future__ import annotations
+
+import pytest
+
+from verify.cli import main
+from verify.errors import InputError
+from verify.outputs import write_text
+
+
+def test_a_design_output_never_replaces_an_existing_file(tmp_path):
+    f = tmp_path / "mine.v"
+    f.write_text("module mine; endmodule\n")
+    with pytest.raises(InputError, match="refusing to overwrite"):
+        write_text(f, "new", what="design")
+    assert f.read_text() == "module mine; endmodule\n"
+    write_text(f, "new", what="design", force=True)
+    assert f.read_text() == "new"
+
+
+def test_a_report_replaces_only_an_earlier_report_of_this_tool(tmp_path):
+    f = tmp_path / "report.xml"
+    write_text(f, '<testsuites name="adder-verify run"/>', replace_reports=True)
+    write_text(f, '<testsuites name="adder-verify run" tests="2"/>', replace_reports=True)
+    assert 'tests="2"' in f.read_text()
+    mine = tmp_path / "notes.xml"
+    mine.write_text("<my-notes/>")
+    with pytest.raises(InputError, match="not written by adder-verify"):
+        write_text(mine, "<x/>", replace_reports=True)
+    assert mine.read_text() == "<my-notes/>"
+
+
+def test_generate_refuses_to_overwrite_without_force(tmp_path, capsys):
+    out = tmp_path / "ks8.json"
+    out.write_text("hand written")
+    with pytest.raises(SystemExit) as e:
+        main(["generate", "kogge-stone", "--width", "8", "-o", str(out)])
+    assert e.value.code == 2 and out.read_text() == "hand written"
+    assert "refusing to overwrite" in capsys.readouterr().err
+    with pytest.raises(SystemExit) as e:
+        main(["generate", "kogge-stone", "--width", "8", "-o", str(out), "--force"])
+    assert e.value.code == 0 and '"verify-netlist/1"' in out.read_text()
