@@ -122,3 +122,19 @@ def test_the_installed_command_and_python_dash_m(files):
         p = subprocess.run([*cmd, "check", str(good), "--spec", "sum = a +"], capture_output=True,
                            text=True, timeout=120)
         assert p.returncode == 2 and "Traceback" not in p.stderr and p.stderr.count("\n") == 1
+
+
+def test_export_round_trips_through_verilog_and_json(files, capsys):
+    tmp, _, bad = files
+    import itertools
+
+    from verify.formats import load
+    from verify.sim import Simulator
+    v = tmp / "out.v"
+    j = tmp / "out.json"
+    assert run(["export", str(bad), "--format", "verilog", "-o", str(v)], capsys)[0] == 0
+    assert run(["export", str(v), "--format", "json", "-o", str(j)], capsys)[0] == 0
+    assert run(["export", str(v), "--format", "json", "-o", str(j)], capsys)[0] == 2  # no --force
+    first, back = Simulator(load(bad)), Simulator(load(j))
+    vectors = [{"a": a, "b": b, "cin": c} for a, b, c in itertools.product(range(256), range(0, 256, 7), (0, 1))]
+    assert first.evaluate_many(vectors) == back.evaluate_many(vectors)

@@ -113,6 +113,20 @@ def design_units(paths: tuple[str, ...]) -> list[list[Path]]:
     return [given]
 
 
+def verilog_options(f):
+    """--top, --param, -I and -D: how to elaborate Verilog designs (ignored by nothing, refused
+    for JSON netlists)."""
+    for option in reversed([
+        click.option("--top", help="Verilog: the top module (found automatically if there is one)."),
+        click.option("--param", "params", multiple=True, metavar="NAME=V[,V...]",
+                     help="Verilog: override a parameter; several values check each in turn."),
+        click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder."),
+        click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define."),
+    ]):
+        f = option(f)
+    return f
+
+
 # ---- verify check ---------------------------------------------------------------------------
 
 @cli.command("check")
@@ -131,11 +145,7 @@ def design_units(paths: tuple[str, ...]) -> list[list[Path]]:
 @click.option("--exhaustive-limit", type=click.IntRange(1, 40), default=DEFAULT_EXHAUSTIVE_BITS,
               show_default=True, metavar="BITS", help="Largest input width the exhaustive engine takes.")
 @click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
-@click.option("--top", help="Verilog: the top module (found automatically if there is one).")
-@click.option("--param", "params", multiple=True, metavar="NAME=V[,V...]",
-              help="Verilog: override a parameter; several values check each in turn.")
-@click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder.")
-@click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define.")
+@verilog_options
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
 @click.option("--log-dir", default="logs", show_default=True, help="Where runs.jsonl is appended.")
 @click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl.")
@@ -254,6 +264,34 @@ def worst(codes: list[int]) -> int:
     for c in (2, 1, 3):
         if c in codes:
             return c
+    return 0
+
+
+# ---- verify export ---------------------------------------------------------------------------
+
+@cli.command("export")
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@click.option("--format", "fmt", type=click.Choice(["verilog", "json"]), required=True,
+              help="structural Verilog (gate primitives and simple assigns) or the JSON netlist.")
+@click.option("-o", "--output", metavar="FILE", help="Write here (default: standard output).")
+@click.option("--force", is_flag=True, help="Replace FILE if it exists.")
+@verilog_options
+def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
+    """Write any loaded design as structural Verilog or as a JSON netlist."""
+    from verify.formats import json_netlist, load, verilog_writer
+    from verify.outputs import write_text
+
+    point = parse_params(params)
+    if any(len(v) > 1 for v in point.values()):
+        raise InputError("export takes one value per --param")
+    design = load(list(paths), top=top, params={k: v[0] for k, v in point.items()},
+                  include_dirs=include_dirs, defines=parse_defines(defines))
+    text = verilog_writer.dumps(design) if fmt == "verilog" else json_netlist.dumps(design)
+    if output:
+        write_text(output, text, what="design", force=force)
+        click.echo(f"wrote {output}: {design.summary()}", err=True)
+    else:
+        click.echo(text, nl=False)
     return 0
 
 
