@@ -361,8 +361,11 @@ REFUSALS = [
     ("undecl.v", "module u(input a, output y);\n  assign y = nothing_here;\nendmodule\n",
      r"undecl\.v:2:14", "undeclared identifier"),
     ("while.sv", "module wh(input logic [3:0] a, output logic [3:0] y);\n  always_comb begin\n"
-                 "    y = a;\n    while (y < 4) y = y + 1;\n  end\nendmodule\n", r"while\.sv:4:5",
-     "while loop is not supported"),
+                 "    y = a;\n    while (y < 4) y = y + 1;\n  end\nendmodule\n", r"while\.sv:4:12",
+     "while loop whose condition depends on a signal"),
+    ("forever.sv", "module fe(input logic a, output logic y);\n  always_comb begin\n"
+                   "    y = a;\n    forever y = ~y;\n  end\nendmodule\n", r"forever\.sv:4:5",
+     "forever loop is not supported"),
     ("multi.v", "module multi(input a, b, output y);\n  assign y = a;\n  assign y = b;\nendmodule\n",
      r"multi\.v:2:10", "more than one driver"),
     ("undriven.v", "module und(input a, output y);\n  wire w;\n  assign y = a & w;\nendmodule\n",
@@ -562,3 +565,19 @@ def test_x_follows_verilog_semantics_through_folding(tmp_path):
               "  assign y = a | (t ^ t);\nendmodule\n")
     with pytest.raises(InputError, match="x or z value can reach output 'y'"):
         load([f])
+
+
+def test_while_loop_with_constant_bound(tmp_path):
+    n = _fn(tmp_path, """
+  always_comb begin
+    int k;
+    k = 0;
+    y = 0;
+    while (k < 4) begin
+      y = y + (a[k] ? 4'd1 : 4'd0);
+      k = k + 1;
+    end
+    do y = y + 1; while (0);
+  end""", "input logic [3:0] a, output logic [3:0] y")
+    sim = Simulator(n)
+    assert all(sim.evaluate({"a": a})["y"] == bin(a).count("1") + 1 for a in range(16))

@@ -1210,6 +1210,8 @@ class Translator:
                 raise self.unsupported("a repeat loop whose count is not a constant", s)
             for _ in range(max(0, n)):
                 self.exec(s.body)
+        elif k in (STK.WhileLoop, STK.DoWhileLoop):
+            self.exec_while(s, first=k == STK.DoWhileLoop)
         elif k == STK.Empty:
             pass
         elif k == STK.Return:
@@ -1496,6 +1498,26 @@ class Translator:
                 raise self.unsupported("return inside a loop", s)
             for st in s.steps:
                 self.exec_expr(st)
+
+    def exec_while(self, s, *, first: bool) -> None:
+        """while / do-while whose condition is a constant on every iteration (unrolled)."""
+        f = self.frame
+        count = 0
+        while True:
+            if not first:
+                c = self.truth(self.ev(s.cond))
+                if c not in _CONSTS:
+                    raise self.fail("a while loop whose condition depends on a signal (only loops "
+                                    "with constant bounds can be unrolled)", s.cond)
+                if c == CONST0:
+                    break
+            first = False
+            count += 1
+            if count > _MAX_LOOP:
+                raise self.fail(f"a loop that runs more than {_MAX_LOOP} times", s)
+            self.exec(s.body)
+            if f.returned:
+                raise self.unsupported("return inside a loop", s)
 
     # ==== functions =====================================================================
     def inline_function(self, sub, args, e) -> list[str]:
