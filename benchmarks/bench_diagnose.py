@@ -72,6 +72,13 @@ def inject(design: Netlist, kind: str, rng: random.Random) -> tuple[Netlist, set
         new = Gate(g.op, tuple(ins), g.output, g.source)
         extra = [Gate("not", (g.inputs[pos],), inv, "injected inverter")]
         hit.add(inv)
+    elif kind == "dropped-input":  # not one of the classes: a forgotten term
+        if len(g.inputs) < 2 or g.op in ("mux", "maj"):
+            return None
+        pos = rng.randrange(len(g.inputs))
+        ins = g.inputs[:pos] + g.inputs[pos + 1:]
+        new = Gate(g.op if len(ins) > 1 else "buf", ins, g.output, g.source)
+        extra = []
     else:
         new = Gate("const0" if kind == "stuck-at-0" else "const1", (), g.output, g.source)
         extra = []
@@ -114,9 +121,12 @@ def main(argv=None) -> int:
     ap.add_argument("--seed", type=int, default=1)
     ap.add_argument("--quick", action="store_true", help="widths 4 and 8 only")
     ap.add_argument("--widths", help="comma-separated widths (default 4,8,16,32)")
+    ap.add_argument("--kinds", help="comma-separated fault kinds (default: the issue's five; "
+                    "also dropped-input, a forgotten gate input)")
     ap.add_argument("--show-misses", action="store_true")
     args = ap.parse_args(argv)
     rng = random.Random(args.seed)
+    kinds = args.kinds.split(",") if args.kinds else KINDS
     widths = [4, 8] if args.quick else WIDTHS
     if args.widths:
         widths = [int(x) for x in args.widths.split(",")]
@@ -131,7 +141,7 @@ def main(argv=None) -> int:
             tries = 0
             while made < args.faults_per_design and tries < 10 * args.faults_per_design:
                 tries += 1
-                kind = KINDS[made % len(KINDS)]
+                kind = kinds[made % len(kinds)]
                 got = inject(design, kind, rng)
                 if got is None:
                     continue

@@ -391,15 +391,25 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
         trial[pos] ^= M
         if gives(_eval(g.op, trial, M)):
             return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted"
+    downstream = {G.first_gate + gp for gp in G.cone(k)} | {k}
     for pos in range(len(xs)):
         trial = list(xs)
-        for other in range(k):  # earlier nets only: a replacement cannot make a loop
-            if other == ins[pos]:
+        for other in range(len(G.nets)):  # not from its own fan-out: that would be a loop
+            if other == ins[pos] or other in downstream:
                 continue
             trial[pos] = base[other]
             if gives(_eval(g.op, trial, M)):
                 return (f"input {pos + 1} should come from {G.nets[other]}, "
                         f"not {G.nets[ins[pos]]}")
+    ops = (g.op,) if g.op in ("and", "or", "xor", "nand", "nor", "xnor") else (
+        ("and", "or", "xor") if g.op == "buf" else ())
+    for op in ops:  # a forgotten input: one more net into the gate
+        for other in range(len(G.nets)):
+            if other in downstream or other in ins:
+                continue
+            if gives(_eval(op, [*xs, base[other]], M)):
+                what = f"{g.op} gate" if op == g.op else f"buf should be {op} and"
+                return f"this {what} is missing an input: {G.nets[other]} gives the value it needs"
     return stuck
 
 
