@@ -5,6 +5,8 @@
 - flat: a generated 1024-bit Kogge-Stone adder, written the way a generator emits it (one wire
   and one assign per prefix node, about 24,600 statements), read from a file: seconds for slang
   (parse + elaborate + diagnostics) beside seconds for the whole load (slang + translation);
+- cells: the same adder from a generator that instantiates one small module per black cell
+  (about 9,200 instances), the same two figures;
 - generate: the same adder as a parameterized generate-loop module (tests/verilog/larkspur_ks.sv
   with W=1024), the same two figures;
 - sweep: larkspur_ks.sv at W=8,16,32,64: the first load (parses the file) beside the later ones
@@ -61,6 +63,31 @@ def flat_kogge_stone(w: int, name: str = "larkspur_ks_flat") -> str:
     return "\n".join(out) + "\n"
 
 
+def cell_kogge_stone(w: int, name: str = "larkspur_ks_cells") -> str:
+    """The same adder from a generator that instantiates one cell module per black node."""
+    levels = max(1, (w - 1).bit_length())
+    out = ["module larkspur_black (input gi, pi, gj, pj, output go, po);",
+           "  assign go = gi | (pi & gj);", "  assign po = pi & pj;", "endmodule",
+           f"module {name} (input [{w - 1}:0] a, b, input cin, output [{w - 1}:0] sum, output cout);",
+           f"  wire [{w - 1}:0] g0 = a & b, p0 = a ^ b;"]
+    for lv in range(levels):
+        d = 1 << lv
+        out.append(f"  wire [{w - 1}:0] g{lv + 1}, p{lv + 1};")
+        for i in range(w):
+            if i >= d:
+                out.append(f"  larkspur_black u{lv}_{i} (.gi(g{lv}[{i}]), .pi(p{lv}[{i}]), "
+                           f".gj(g{lv}[{i - d}]), .pj(p{lv}[{i - d}]), .go(g{lv + 1}[{i}]), "
+                           f".po(p{lv + 1}[{i}]));")
+            else:
+                out.append(f"  assign g{lv + 1}[{i}] = g{lv}[{i}];")
+                out.append(f"  assign p{lv + 1}[{i}] = p{lv}[{i}];")
+    out.append(f"  wire [{w}:0] c = {{g{levels} | (p{levels} & {{{w}{{cin}}}}), cin}};")
+    out.append(f"  assign sum = p0 ^ c[{w - 1}:0];")
+    out.append(f"  assign cout = c[{w}];")
+    out.append("endmodule")
+    return "\n".join(out) + "\n"
+
+
 def slang_only(paths, params) -> float:
     """Baseline: what pyslang alone takes (parse, elaborate, collect diagnostics)."""
     import pyslang
@@ -107,6 +134,18 @@ def main() -> int:
         held = secs < TARGET_S
         ok &= held
         print(f"flat {w}-bit Kogge-Stone ({statements} statements, {len(n.gates)} gates): "
+              f"load {secs:.2f} s (slang alone {base:.2f} s, translation {secs - base:.2f} s); "
+              f"target < {TARGET_S:.0f} s: {'held' if held else 'MISSED'}")
+        cells = Path(tmp) / "larkspur_ks_cells.v"
+        text = cell_kogge_stone(w)
+        cells.write_text(text)
+        instances = text.count("larkspur_black u")
+        base = slang_only([cells], {})
+        n, secs = full_load([cells], {})
+        spot_check(n, w)
+        held = secs < TARGET_S
+        ok &= held
+        print(f"cell-instance {w}-bit Kogge-Stone ({instances} instances, {len(n.gates)} gates): "
               f"load {secs:.2f} s (slang alone {base:.2f} s, translation {secs - base:.2f} s); "
               f"target < {TARGET_S:.0f} s: {'held' if held else 'MISSED'}")
     gen = ROOT / "tests" / "verilog" / "larkspur_ks.sv"
