@@ -426,7 +426,25 @@ class Translator:
             if isinstance(sel, range) and (not sel or (sel.start >= 0 and sel.stop <= n)):
                 return key, bits, offs[sel.start:sel.stop]  # a range of a range stays a range
             return key, bits, [offs[i] if i is not None and 0 <= i < n else None for i in sel]
+        if k == EK.MemberAccess:
+            span = self.member_span(e)
+            base = self.ref(e.value)
+            if base is None:
+                return None
+            key, bits, offs = base
+            lo, hi = span
+            return key, bits, offs[lo:hi]
         return None
+
+    def member_span(self, e) -> tuple[int, int]:
+        """(low, high) bit positions of a packed struct or union member within its value."""
+        vt = e.value.type.canonicalType
+        if vt.kind not in (SK.PackedStructType, SK.PackedUnionType) or \
+                e.member.kind != SK.Field:
+            raise self.unsupported(f"member access on a value of type '{e.value.type}' (packed "
+                                   f"structs and unions only)", e)
+        lo = e.member.bitOffset
+        return lo, lo + self.width(e.type, e)
 
     def sig_or_local(self, sym, node) -> list[str]:
         k = (self.path, sym)
@@ -498,8 +516,6 @@ class Translator:
                 raise self.unsupported("assigning through a select whose index is not a constant", e)
             if e.kind == EK.HierarchicalValue:
                 raise self.unsupported("hierarchical reference", e)
-            if e.kind == EK.MemberAccess:
-                raise self.unsupported("struct member access", e)
             raise self.unsupported(f"assigning to this kind of expression ({e.kind.name})", e)
         key, bits, offs = r
         return [(key, bits[o] if o is not None else None, o) for o in offs]
@@ -1079,7 +1095,11 @@ class Translator:
         raise self.unsupported("an assignment used inside an expression", e)
 
     def _member(self, e):
-        raise self.unsupported("struct or union member access", e)
+        r = self.ref(e)
+        if r is not None:
+            return self.read(r, e)
+        lo, hi = self.member_span(e)
+        return self.ev(e.value)[lo:hi]
 
     def _streaming(self, e):
         raise self.unsupported("streaming concatenation", e)
