@@ -53,6 +53,9 @@ ADDERS = [
     ("larkspur_ks.sv", {"W": 13}, 13),  # not a power of two
     ("larkspur_comb_rca.sv", {"W": 7}, 7),
     ("larkspur_csel.sv", {"W": 12, "B": 3}, 12),
+    ("larkspur_bk_comb.sv", {"W": 1}, 1),
+    ("larkspur_bk_comb.sv", {"W": 5}, 5),
+    ("larkspur_bk_comb.sv", {"W": 32}, 32),
 ]
 
 
@@ -115,7 +118,7 @@ def test_correct_designs_are_established_by_an_engine(name, spec):
     assert r.verdict in (verify.Verdict.PROVEN, verify.Verdict.EXHAUSTIVE), r.verdict
 
 
-@pytest.mark.parametrize("name", ["larkspur_ks_bug.sv", "larkspur_rca_bug.v"])
+@pytest.mark.parametrize("name", ["larkspur_ks_bug.sv", "larkspur_rca_bug.v", "larkspur_csel_bug.sv"])
 def test_wrong_designs_fail_with_a_real_counterexample(name):
     n = corpus(name)
     r = verify.check(n, "{cout, sum} = a + b + cin")
@@ -134,7 +137,8 @@ CROSS = [
     ("larkspur_addsub.v", {}), ("larkspur_inc.v", {}), ("larkspur_add3.sv", {"W": 6}),
     ("larkspur_sadd_flags.sv", {}), ("larkspur_rca_bug.v", {}), ("larkspur_mix.sv", {}),
     ("larkspur_rules.sv", {}), ("larkspur_case_widths.sv", {}), ("larkspur_alu_pkg.sv", {}),
-    ("larkspur_fields.sv", {}),
+    ("larkspur_fields.sv", {}), ("larkspur_bk_comb.sv", {"W": 16}), ("larkspur_bk_comb.sv", {"W": 11}),
+    ("larkspur_csel_bug.sv", {}), ("larkspur_addsub_bug.v", {}),
 ]
 
 
@@ -592,3 +596,24 @@ def test_packed_struct_fields_against_python_integers():
             got = sim.evaluate({"a": a, "b": b})
             assert got == {"y": hi ^ (mid << 2 | lo), "z": b << 4 | lo,
                            "u": (a & 3) << 1 | (a >> 2 & 1)}
+
+
+def test_brent_kung_written_procedurally_is_proven():
+    r = verify.check(corpus("larkspur_bk_comb.sv", params={"W": 24}), "{cout, sum} = a + b + cin")
+    assert r.verdict in (verify.Verdict.PROVEN, verify.Verdict.EXHAUSTIVE), r.verdict
+
+
+def test_faulty_adder_subtractor_disagrees_with_python_integers():
+    sim = Simulator(corpus("larkspur_addsub_bug.v", params={"W": 4}))
+    wrong_res = wrong_ovf = 0
+    for a in range(16):
+        for b in range(16):
+            for sub in (0, 1):
+                got = sim.evaluate({"a": a, "b": b, "sub": sub})
+                exact = (a - b) if sub else (a + b)
+                sa, sb = a - 16 * (a >> 3), b - 16 * (b >> 3)
+                sexact = (sa - sb) if sub else (sa + sb)
+                wrong_res += got["res"] != exact & 15
+                wrong_ovf += got["ovf"] != int(not -8 <= sexact <= 7)
+    assert wrong_res == 256  # every subtraction is off by one (Python integers)
+    assert wrong_ovf > 0
