@@ -138,7 +138,7 @@ CROSS = [
     ("larkspur_sadd_flags.sv", {}), ("larkspur_rca_bug.v", {}), ("larkspur_mix.sv", {}),
     ("larkspur_rules.sv", {}), ("larkspur_case_widths.sv", {}), ("larkspur_alu_pkg.sv", {}),
     ("larkspur_fields.sv", {}), ("larkspur_bk_comb.sv", {"W": 16}), ("larkspur_bk_comb.sv", {"W": 11}),
-    ("larkspur_csel_bug.sv", {}), ("larkspur_addsub_bug.v", {}),
+    ("larkspur_csel_bug.sv", {}), ("larkspur_addsub_bug.v", {}), ("larkspur_dyn_write.sv", {}),
 ]
 
 
@@ -617,3 +617,15 @@ def test_faulty_adder_subtractor_disagrees_with_python_integers():
                 wrong_ovf += got["ovf"] != int(not -8 <= sexact <= 7)
     assert wrong_res == 256  # every subtraction is off by one (Python integers)
     assert wrong_ovf > 0
+
+
+def test_writes_through_a_signal_index():
+    sim = Simulator(corpus("larkspur_dyn_write.sv"))
+    for s_ in range(8):
+        for k in range(4):
+            for a in range(16):
+                m = [0, 1, 2]
+                if k < 3:
+                    m[k] = a & 3  # IEEE 1800 7.4.6 (from memory): an out-of-range write does nothing
+                got = sim.evaluate({"s": s_, "k": k, "a": a})
+                assert got == {"onehot": 1 << s_, "y": a ^ (1 << k), "mf": m[0] << 4 | m[1] << 2 | m[2]}

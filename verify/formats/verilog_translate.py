@@ -1275,9 +1275,47 @@ class Translator:
     def dynamic_targets(self, lhs):
         raise self.unsupported("assigning through an index that is not a constant", lhs)
 
+    def dynamic_write(self, e) -> bool:
+        """``x[i] = v`` in a block with a signal index: each element is written when i selects
+        it and keeps its current value otherwise. False when the assignment is not of that form."""
+        lhs = e.left
+        if lhs.kind != EK.ElementSelect or e.isCompound:
+            return False
+        base = self.ref(lhs.value)
+        if base is None or self.ref(lhs) is not None:
+            return False
+        key, bits, offs = base
+        vt = lhs.value.type.canonicalType
+        if vt.kind in (SK.PackedArrayType, SK.FixedSizeUnpackedArrayType):
+            r, ew = vt.range, self.width(vt.elementType, lhs)
+        elif vt.isIntegral and vt.hasFixedRange:
+            r, ew = vt.fixedRange, 1
+        else:
+            return False
+        sel = self.ev(lhs.selector)
+        signed = lhs.selector.type.isSigned
+        value = self.fit(self.ev(e.right), ew, e.right.type.isSigned)
+        f = self.frame
+        store = f.nonblocking if e.isNonBlocking else f.env
+        desc = r.left >= r.right
+        b = self.b
+        for p in range(r.width):
+            idx = r.right + p if desc else r.right - p
+            if not _representable(idx, len(sel), signed):
+                continue  # no value of the index selects this element
+            hit = self.eq_const(sel, idx)
+            tg = [(key, offs[p * ew + j]) for j in range(ew)]
+            cur = store.get(key)
+            old = [cur[o] if cur is not None else None for _, o in tg]
+            new = [None if o is None else b.mux(hit, o, v) for o, v in zip(old, value)]
+            self.write_targets(tg, new, nonblocking=e.isNonBlocking)
+        return True
+
     def proc_assign(self, e) -> None:
         f = self.frame
         lhs = e.left
+        if lhs.kind == EK.ElementSelect and self.dynamic_write(e):
+            return
         tg = self.proc_targets(lhs)
         if e.isCompound:
             self._lvref_stack_push(self.read_targets(tg, lhs))
