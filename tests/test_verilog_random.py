@@ -86,6 +86,8 @@ def _stmt(rng: random.Random, depth: int, targets: list[str]) -> list[str]:
     k = rng.random()
     t = rng.choice(targets)
     if depth == 0 or k < 0.4:
+        if rng.random() < 0.2:  # one element through a signal index
+            return [f"{t}[{rng.choice(['b[1:0]', 'a[2:0]', 'sb[1:0]'])}] = {expr(rng, 1)};"]
         return [f"{t} = {expr(rng, 2)};"]
     if k < 0.6:
         out = [f"if ({expr(rng, 2)}) begin"] + _stmt(rng, depth - 1, targets)
