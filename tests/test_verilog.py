@@ -629,3 +629,14 @@ def test_writes_through_a_signal_index():
                     m[k] = a & 3  # IEEE 1800 7.4.6 (from memory): an out-of-range write does nothing
                 got = sim.evaluate({"s": s_, "k": k, "a": a})
                 assert got == {"onehot": 1 << s_, "y": a ^ (1 << k), "mf": m[0] << 4 | m[1] << 2 | m[2]}
+
+
+def test_deeply_nested_generated_expression(tmp_path):
+    terms = " ^ ".join(f"a[{i}]" for i in range(3000))
+    f = write(tmp_path, "deep.v", f"module deep(input [2999:0] a, output y);\n"
+              f"  assign y = {terms};\nendmodule\n")
+    sim = Simulator(load([f]))
+    rng = random.Random(9)
+    for _ in range(5):
+        a = rng.getrandbits(3000)
+        assert sim.evaluate({"a": a}) == {"y": bin(a).count("1") & 1}  # parity, Python integers
