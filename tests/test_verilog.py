@@ -640,3 +640,14 @@ def test_deeply_nested_generated_expression(tmp_path):
     for _ in range(5):
         a = rng.getrandbits(3000)
         assert sim.evaluate({"a": a}) == {"y": bin(a).count("1") & 1}  # parity, Python integers
+
+
+def test_signal_index_takes_only_the_values_it_can(tmp_path):
+    # k*4 with a 1-bit k can only be 0 or 4: both parts are inside a[7:0], so no x is possible
+    n = _fn(tmp_path, "  assign y = a[k*4 +: 4];", "input [7:0] a, input [0:0] k, output [3:0] y")
+    assert [Simulator(n).evaluate({"a": 0xA5, "k": k})["y"] for k in (0, 1)] == [0x5, 0xA]
+    # k*2 with a 2-bit k reaches a[9:6] for k = 3, two bits outside the range: x (IEEE 1800 11.5.1)
+    f = write(tmp_path, "part.sv", "module part(input [7:0] a, input [1:0] k, output [3:0] y);\n"
+              "  assign y = a[k*2 +: 4];\nendmodule\n")
+    with pytest.raises(InputError, match="outside the declared range"):
+        load([f])

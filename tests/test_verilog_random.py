@@ -55,6 +55,9 @@ def expr(rng: random.Random, depth: int) -> str:
         return f"({x()} {rng.choice(['<<', '>>', '<<<', '>>>'])} {rng.randint(0, 7)})"
     if k < 0.75:
         return f"({x()} {rng.choice(['<<', '>>', '>>>'])} b[1:0])"  # shift by a signal
+    if k < 0.77:  # selects through a signal index, always inside the declared range
+        return rng.choice(["a[b[1:0]]", "w[{b[1:0], 3'b000} +: 8]", "w[{1'b1, a[2:0]} * 4 -: 3]",
+                           "sa[b[1:0] + 2'd1]"])
     if k < 0.83:
         return f"({x()} ? {x()} : {x()})"
     if k < 0.9:

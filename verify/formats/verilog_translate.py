@@ -786,16 +786,30 @@ class Translator:
         xw = self.where(e)
         result = None
         sw = len(sel)
-        # every index value that selects something inside the range
-        candidates = []
         lo_i, hi_i = min(r.left, r.right), max(r.left, r.right)
-        for i in range(lo_i - (out_w // ew) + 1, hi_i + 1):
-            if e.kind == EK.ElementSelect and not (lo_i <= i <= hi_i):
-                continue
-            if not _representable(i, sw, signed):
-                continue
-            candidates.append(i)
-        total_values = 1 << sw if sw < 30 else None
+
+        def selects_something(i: int) -> bool:
+            if e.kind == EK.ElementSelect:
+                return lo_i <= i <= hi_i
+            return lo_i - (out_w // ew) + 1 <= i <= hi_i
+
+        free = [k for k, x in enumerate(sel) if x not in _CONSTS]
+        if len(free) <= 12:
+            # the index has few bits that are not constant (k*4, {k, 2'b00}, ...): enumerate
+            # exactly the values it can take
+            fixed = sum(1 << k for k, x in enumerate(sel) if x == CONST1)
+            values = set()
+            for m in range(1 << len(free)):
+                v = fixed | sum((m >> j & 1) << k for j, k in enumerate(free))
+                if signed and sw and v >> (sw - 1) & 1:
+                    v -= 1 << sw
+                values.add(v)
+            candidates = sorted(i for i in values if selects_something(i))
+            every_value_covered = len(candidates) == len(values)
+        else:
+            candidates = [i for i in range(lo_i - (out_w // ew) + 1, hi_i + 1)
+                          if selects_something(i) and _representable(i, sw, signed)]
+            every_value_covered = sw < 30 and len(candidates) == 1 << sw
         for count, i in enumerate(candidates):
             if e.kind == EK.ElementSelect:
                 idxs = [i]
@@ -810,12 +824,12 @@ class Translator:
                     x = self.xbit(xw, "a select outside the declared range (x)")
                     bits.extend([x] * ew)
             if result is None:
-                if total_values is not None and len(candidates) == total_values:
+                if every_value_covered:
                     result = bits  # every index value is covered: the first is the default
                     continue
                 x = self.xbit(xw, "a select outside the declared range (x)")
                 result = [x] * out_w
-            hit = self.eq_const(sel, i)
+            hit = self.eq_const([sel[k] for k in free], _gather(i, free))
             result = [b.mux(hit, d0, d1) for d0, d1 in zip(result, bits)]
         if result is None:
             x = self.xbit(xw, "a select outside the declared range (x)")
@@ -848,6 +862,8 @@ class Translator:
     def _conversion(self, e):
         op = e.operand
         t = e.type.canonicalType
+        if op.kind == EK.Streaming:
+            raise self.unsupported("streaming concatenation ({<<{...}} / {>>{...}})", op)
         if not t.isIntegral or not op.type.canonicalType.isIntegral:
             if t.kind == SK.FixedSizeUnpackedArrayType and op.type.canonicalType.kind == t.kind:
                 return self.ev(op)
@@ -1255,6 +1271,8 @@ class Translator:
             if name in ("$display", "$write", "$info", "$warning", "$strobe", "$monitor"):
                 return
             raise self.unsupported(f"system task '{name}' in a combinational block", e)
+        elif e.kind == EK.Call:
+            raise self.unsupported(f"task call '{e.subroutineName}'", e)
         else:
             raise self.unsupported("this expression statement", e)
 
@@ -1806,6 +1824,11 @@ def _to_int(bits: list[str], signed: bool) -> int:
 def _from_int(v: int, w: int) -> list[str]:
     v &= (1 << w) - 1
     return [CONST1 if v >> i & 1 else CONST0 for i in range(w)]
+
+
+def _gather(value: int, positions: list[int]) -> int:
+    """The bits of ``value`` (two's complement) at ``positions``, packed from bit 0 up."""
+    return sum((value >> k & 1) << j for j, k in enumerate(positions))
 
 
 def _representable(i: int, w: int, signed: bool) -> bool:
