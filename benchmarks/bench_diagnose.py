@@ -67,6 +67,8 @@ def inject(design: Netlist, kind: str, rng: random.Random) -> tuple[Netlist, set
     elif kind == "inverted-input":
         pos = rng.randrange(len(g.inputs))
         inv = f"{g.inputs[pos]}_fault_inv".replace("[", "_").replace("]", "_")
+        if inv in design.driver:
+            return None
         ins = list(g.inputs)
         ins[pos] = inv
         new = Gate(g.op, tuple(ins), g.output, g.source)
@@ -85,6 +87,17 @@ def inject(design: Netlist, kind: str, rng: random.Random) -> tuple[Netlist, set
     out = [new if x is g else x for x in design.gates] + extra
     return Netlist(design.name + "_faulty", design.inputs, design.outputs, tuple(out),
                    design.origin).validate(), hit
+
+
+def inject_two(design: Netlist, rng: random.Random) -> tuple[Netlist, set[str]] | None:
+    """Two faults of the issue's classes at two gates ("double"; a hit is either gate)."""
+    first = inject(design, rng.choice(KINDS), rng)
+    if first is None:
+        return None
+    second = inject(first[0], rng.choice(KINDS), rng)
+    if second is None or second[1] & first[1]:
+        return None
+    return second[0], first[1] | second[1]
 
 
 def find_failure(faulty: Netlist, spec, rng: random.Random) -> dict | None:
@@ -122,7 +135,7 @@ def main(argv=None) -> int:
     ap.add_argument("--quick", action="store_true", help="widths 4 and 8 only")
     ap.add_argument("--widths", help="comma-separated widths (default 4,8,16,32)")
     ap.add_argument("--kinds", help="comma-separated fault kinds (default: the issue's five; "
-                    "also dropped-input, a forgotten gate input)")
+                    "also dropped-input, a forgotten gate input, and double, two faults at once)")
     ap.add_argument("--show-misses", action="store_true")
     args = ap.parse_args(argv)
     rng = random.Random(args.seed)
@@ -142,7 +155,7 @@ def main(argv=None) -> int:
             while made < args.faults_per_design and tries < 10 * args.faults_per_design:
                 tries += 1
                 kind = kinds[made % len(kinds)]
-                got = inject(design, kind, rng)
+                got = inject_two(design, rng) if kind == "double" else inject(design, kind, rng)
                 if got is None:
                     continue
                 faulty, hit = got

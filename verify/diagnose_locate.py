@@ -288,9 +288,9 @@ def _rank(an: Analysis, top: int) -> None:
             need |= 1 << n
     gate_nets = range(G.first_gate, len(G.nets))
     full = [k for k in gate_nets if reach[k] & need == need]
-    pool = full if full else [k for k in gate_nets if reach[k] & need]
+    some = [k for k in gate_nets if reach[k] & need and reach[k] & need != need]
     results = {}
-    for k in pool:
+    for k in _then(full, some, results, fail):
         cone = G.cone(k)
         vals = G.simulate_forced(base, k, base[k] ^ M, M, cone)
         diff = 0
@@ -301,7 +301,7 @@ def _rank(an: Analysis, top: int) -> None:
         if not fixed:
             continue
         results[k] = (fixed, ok_flip)
-    an.candidates_tried = len(pool)
+    an.candidates_tried = len(results)
     if not results:
         return
     anc = G.ancestors()
@@ -325,8 +325,12 @@ def _rank(an: Analysis, top: int) -> None:
         required = base[k] ^ fixed
         care = fixed | (~fail & M & ~ok_flip)
         change = _local_change(G, base, k, required, care, M) if k in local_for else None
-        score = (frac * (HEALTHY_WEIGHT if healthy[k] else 1.0)
-                 * (1.0 if change else NO_LOCAL_WEIGHT) / (1 + upstream))
+        if change is None:
+            weight = NO_LOCAL_WEIGHT * (HEALTHY_WEIGHT if healthy[k] else 1.0)
+        else:
+            weight = _CHANGE_WEIGHT[change[1]] * (HEALTHY_LOCAL_WEIGHT if healthy[k] else 1.0)
+            change = change[0]
+        score = frac * weight / (1 + upstream)
         sus = Suspect(g.output, g.op, g.inputs, g.source, score, frac,
                       an.table.matches(base[k])[:3] if an.table else [], [],
                       _popcount(fixed), upstream, k)
@@ -355,16 +359,29 @@ def _rank(an: Analysis, top: int) -> None:
     an.repaired = dict(zip(G.nets[2:], vals[2:]))
 
 
+def _then(full: list[int], some: list[int], results: dict, fail: int):
+    """The nets reaching every wrong output bit; then, unless one of them repairs every failing
+    vector (one fault), the nets reaching only some (two faults or more)."""
+    yield from full
+    if not any(fixed == fail for fixed, _ in results.values()):
+        yield from some
+
+
 #: how many repair points get the local test at most
 LOCAL_TESTS = 40
 #: weight of a repair point where no single change at the gate gives the value it needs
 NO_LOCAL_WEIGHT = 0.3
+#: how much a net that behaves like an adder signal counts when one change at it fixes it
+HEALTHY_LOCAL_WEIGHT = 0.8
+#: how plausible each kind of single change at a gate is, as a bug
+_CHANGE_WEIGHT = {"const": 1.0, "op": 1.0, "invert": 1.0, "stuck": 0.9, "source": 0.9,
+                  "missing": 0.7}
 _SAME_ARITY = {1: ("buf", "not"), 2: ("and", "or", "xor", "nand", "nor", "xnor"),
                3: ("and", "or", "xor", "nand", "nor", "xnor", "mux", "maj")}
 
 
 def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, M: int
-                  ) -> str | None:
+                  ) -> tuple[str, str] | None:
     """One change at the gate driving net k that makes it carry ``required`` on ``care``:
     a constant output, another op, an inverted input, or an input taken from another net."""
     gpos = k - G.first_gate
@@ -376,8 +393,8 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
         return (word & care) == want
 
     if base[k] & care in (0, care) and g.op in ("const0", "const1"):
-        return f"it is tied to {0 if g.op == 'const0' else 1}: its value never changes"
-    stuck = (f"it is stuck at {1 if base[k] else 0} over every vector"
+        return f"it is tied to {0 if g.op == 'const0' else 1}: its value never changes", "const"
+    stuck = ((f"it is stuck at {1 if base[k] else 0} over every vector", "stuck")
              if base[k] in (0, M) and not gives(base[k]) else None)
     if not ins:
         return stuck
@@ -385,12 +402,12 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
     arity = len(xs) if len(xs) <= 3 else 2
     for op in _SAME_ARITY[arity]:
         if op != g.op and not (op in ("mux", "maj") and len(xs) != 3) and gives(_eval(op, xs, M)):
-            return f"its op should be {op}, not {g.op}"
+            return f"its op should be {op}, not {g.op}", "op"
     for pos in range(len(xs)):
         trial = list(xs)
         trial[pos] ^= M
         if gives(_eval(g.op, trial, M)):
-            return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted"
+            return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted", "invert"
     downstream = {G.first_gate + gp for gp in G.cone(k)} | {k}
     for pos in range(len(xs)):
         trial = list(xs)
@@ -400,7 +417,7 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
             trial[pos] = base[other]
             if gives(_eval(g.op, trial, M)):
                 return (f"input {pos + 1} should come from {G.nets[other]}, "
-                        f"not {G.nets[ins[pos]]}")
+                        f"not {G.nets[ins[pos]]}"), "source"
     ops = (g.op,) if g.op in ("and", "or", "xor", "nand", "nor", "xnor") else (
         ("and", "or", "xor") if g.op == "buf" else ())
     for op in ops:  # a forgotten input: one more net into the gate
@@ -409,7 +426,8 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
                 continue
             if gives(_eval(op, [*xs, base[other]], M)):
                 what = f"{g.op} gate" if op == g.op else f"buf should be {op} and"
-                return f"this {what} is missing an input: {G.nets[other]} gives the value it needs"
+                return (f"this {what} is missing an input: {G.nets[other]} gives the value it "
+                        f"needs"), "missing"
     return stuck
 
 
