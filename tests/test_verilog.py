@@ -651,3 +651,24 @@ def test_signal_index_takes_only_the_values_it_can(tmp_path):
               "  assign y = a[k*2 +: 4];\nendmodule\n")
     with pytest.raises(InputError, match="outside the declared range"):
         load([f])
+
+
+def test_break_and_continue_against_python_integers():
+    # (Icarus Verilog 11 has no break/continue, so this one is checked against Python only)
+    sim = Simulator(corpus("larkspur_lzc.sv"))
+    for a in range(256):
+        ones = 0
+        while ones < 8 and a >> ones & 1:
+            ones += 1
+        assert sim.evaluate({"a": a}) == {
+            "lz": 8 - a.bit_length(), "cnt": sum(a >> i & 1 for i in range(8) if i != 3),
+            "mask": (1 << ones) - 1, "found": int(ones < 8)}
+
+
+def test_break_with_an_outside_loop_variable_is_refused(tmp_path):
+    f = write(tmp_path, "outer.sv", "module outer(input logic [3:0] a, output logic [3:0] y);\n"
+              "  integer i;\n  always_comb begin\n    y = 0;\n"
+              "    for (i = 0; i < 4; i = i + 1) begin\n      if (a[i]) break;\n      y = y + 1;\n"
+              "    end\n  end\nendmodule\n")
+    with pytest.raises(InputError, match=r"outer\.sv:5:\d+: break depending on a signal"):
+        load([f])

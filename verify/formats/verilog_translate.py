@@ -49,6 +49,11 @@ class _Frame:
         self.event_keys = event_keys
         self.returned = False
         self.parent: _Frame | None = None  # the caller's frame, for an inlined function
+        # inside loops: the condition (a net) under which this path has left the loop (break)
+        # or the rest of this iteration (continue); writes are guarded by neither being true
+        self.brk = CONST0
+        self.cont = CONST0
+        self.loops = 0
         self.first_write: dict[tuple, str | None] = {}
 
 
@@ -1209,13 +1214,13 @@ class Translator:
 
     def exec(self, s) -> None:
         f = self.frame
-        if f.returned:
+        if f.returned or f.brk == CONST1 or f.cont == CONST1:
             return
         k = s.kind
         if k == STK.List:
             for x in s.list:
                 self.exec(x)
-                if f.returned:
+                if f.returned or f.brk == CONST1 or f.cont == CONST1:
                     return
         elif k == STK.Block:
             if s.blockKind != ast.StatementBlockKind.Sequential:
@@ -1248,6 +1253,13 @@ class Translator:
                 self.exec(s.body)
         elif k in (STK.WhileLoop, STK.DoWhileLoop):
             self.exec_while(s, first=k == STK.DoWhileLoop)
+        elif k in (STK.Break, STK.Continue):
+            if not f.loops:
+                raise self.unsupported("break/continue outside a loop", s)
+            if k == STK.Break:
+                f.brk = CONST1
+            else:
+                f.cont = CONST1
         elif k == STK.Empty:
             pass
         elif k == STK.Return:
@@ -1367,6 +1379,16 @@ class Translator:
     def write_targets(self, tg, value, *, nonblocking: bool = False) -> None:
         f = self.frame
         store = f.nonblocking if nonblocking else f.env
+        if f.brk != CONST0 or f.cont != CONST0:
+            # this path may have left the loop: the write happens only where it has not
+            b = self.b
+            active = b.not_(b.or_(f.brk, f.cont))
+            guarded = []
+            for (key, o), v in zip(tg, value):
+                cur = store.get(key)
+                old = cur[o] if (cur is not None and o is not None and o < len(cur)) else None
+                guarded.append(None if old is None else b.mux(active, old, v))
+            value = guarded
         for (key, o), v in zip(tg, value):
             if o is None:
                 continue
@@ -1399,11 +1421,12 @@ class Translator:
 
     def _branch(self):
         f = self.frame
-        return dict(f.env), dict(f.nonblocking)
+        return dict(f.env), dict(f.nonblocking), f.brk, f.cont
 
     def _restore(self, state):
         f = self.frame
         f.env, f.nonblocking = dict(state[0]), dict(state[1])
+        f.brk, f.cont = state[2], state[3]
 
     def _merge(self, c: str, st_true, st_false):
         """Per bit: st_true's value when c is 1, else st_false's."""
@@ -1422,7 +1445,9 @@ class Translator:
                 merged[key] = [x if x == y else (None if x is None or y is None else b.mux(c, y, x))
                                for x, y in zip(t, f)]
             out.append(merged)
-        return out[0], out[1]
+        brk = st_true[2] if st_true[2] == st_false[2] else b.mux(c, st_false[2], st_true[2])
+        cont = st_true[3] if st_true[3] == st_false[3] else b.mux(c, st_false[3], st_true[3])
+        return out[0], out[1], brk, cont
 
     def exec_if(self, s) -> None:
         f = self.frame
@@ -1451,7 +1476,7 @@ class Translator:
         if t_ret != e_ret:
             raise self.unsupported("a return on only some paths through a function", s)
         self.set_source(s)
-        f.env, f.nonblocking = self._merge(c, t_state, e_state)
+        self._restore(self._merge(c, t_state, e_state))
         f.returned = t_ret
 
     def exec_case(self, s) -> None:
@@ -1503,7 +1528,7 @@ class Translator:
                 acc = st
             elif m != CONST0:
                 acc = self._merge(m, st, acc)
-        f.env, f.nonblocking = dict(acc[0]), dict(acc[1])
+        self._restore(acc)
         f.returned = acc_ret
 
     def case_match(self, sel: list[str], x, w: int, wild: str, covered, signed: bool) -> str:
@@ -1556,30 +1581,67 @@ class Translator:
             f.env[key] = self.fit(self.ev(init), w, init.type.isSigned) if init is not None else [None] * w
         for init in s.initializers:
             self.exec_expr(init)
-        count = 0
-        while True:
-            if s.stopExpr is not None:
-                cv = self.try_const(s.stopExpr)
-                c = (CONST1 if cv else CONST0) if cv is not None else self.truth(self.ev(s.stopExpr))
-                if c not in _CONSTS:
-                    raise self.fail("a for loop whose bound is not a constant (the loop condition "
-                                    "depends on a signal)", s.stopExpr)
-                if c == CONST0:
+        loop_keys = {(self.path, v) for v in s.loopVars}
+        for init in s.initializers:
+            if init.kind == EK.Assignment and init.left.kind == EK.NamedValue:
+                loop_keys.add((self.path, init.left.symbol))
+        saved = (f.brk, f.cont)
+        f.brk = f.cont = CONST0
+        f.loops += 1
+        try:
+            count = 0
+            while True:
+                if s.stopExpr is not None:
+                    cv = self.try_const(s.stopExpr)
+                    c = (CONST1 if cv else CONST0) if cv is not None else self.truth(self.ev(s.stopExpr))
+                    if c not in _CONSTS:
+                        raise self.fail("a for loop whose bound is not a constant (the loop "
+                                        "condition depends on a signal)", s.stopExpr)
+                    if c == CONST0:
+                        break
+                count += 1
+                if count > _MAX_LOOP:
+                    raise self.fail(f"a for loop that runs more than {_MAX_LOOP} times", s)
+                f.cont = CONST0
+                self.exec(s.body)
+                if f.returned:
+                    raise self.unsupported("return inside a loop", s)
+                f.cont = CONST0
+                if f.brk == CONST1:
                     break
-            count += 1
-            if count > _MAX_LOOP:
-                raise self.fail(f"a for loop that runs more than {_MAX_LOOP} times", s)
-            self.exec(s.body)
-            if f.returned:
-                raise self.unsupported("return inside a loop", s)
-            for st in s.steps:
-                self.exec_expr(st)
+                brk = f.brk
+                if brk != CONST0:
+                    # some paths have left the loop: the loop variable keeps counting so that the
+                    # unrolling stays constant, which is only right when nothing reads it after
+                    if not loop_keys or not loop_keys <= f.locals:
+                        raise self.unsupported("break depending on a signal in a loop whose "
+                                               "variable is declared outside it", s)
+                    f.brk = CONST0
+                for st in s.steps:
+                    self.exec_expr(st)
+                f.brk = brk
+        finally:
+            f.loops -= 1
+            f.brk, f.cont = saved
 
     def exec_while(self, s, *, first: bool) -> None:
         """while / do-while whose condition is a constant on every iteration (unrolled)."""
         f = self.frame
+        saved = (f.brk, f.cont)
+        f.brk = f.cont = CONST0
+        f.loops += 1
+        try:
+            self._while_body(s, first)
+        finally:
+            f.loops -= 1
+            f.brk, f.cont = saved
+
+    def _while_body(self, s, first: bool) -> None:
+        f = self.frame
         count = 0
         while True:
+            if f.brk == CONST1:
+                break
             if not first:
                 c = self.truth(self.ev(s.cond))
                 if c not in _CONSTS:
@@ -1591,7 +1653,9 @@ class Translator:
             count += 1
             if count > _MAX_LOOP:
                 raise self.fail(f"a loop that runs more than {_MAX_LOOP} times", s)
+            f.cont = CONST0
             self.exec(s.body)
+            f.cont = CONST0
             if f.returned:
                 raise self.unsupported("return inside a loop", s)
 
