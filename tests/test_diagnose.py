@@ -369,3 +369,60 @@ def test_explain_a_correct_design_without_input(tmp_path, capsys):
     code, out, _ = _run(["explain", str(p)], capsys)
     assert code == 0
     assert "nothing to explain" in out
+
+
+def test_attach_puts_suspects_and_the_waveform_into_the_check_result(tmp_path):
+    import verify
+
+    bad = rewire(ripple(6), "sum[3]", op="or")
+    result = verify.check(bad, ADD)
+    assert result.verdict.value == "fail"
+    lines = diagnose.attach(result, bad, ADD, log_dir=tmp_path)
+    data = json.loads(json.dumps(result.to_json()))
+    assert data["suspects"][0]["net"] == "sum[3]"
+    assert data["vcd"] and Path(data["vcd"]).parent == tmp_path
+    assert any(line.startswith("suspects") for line in lines)
+    good = verify.check(ripple(4), ADD)
+    assert diagnose.attach(good, ripple(4), ADD, log_dir=tmp_path) == []
+    assert "suspects" not in good.extras
+
+
+LARKSPUR_CLA = """\
+// Larkspur: 8-bit adder from two 4-bit lookahead groups; the carry-out term of the group
+// uses p[0] where p[1] belongs (line 8), so both instances are wrong
+module larkspur_cla4(input [3:0] a, input [3:0] b, input ci, output [3:0] s, output co);
+  wire [3:0] p = a ^ b;
+  wire [3:0] g = a & b;
+  wire c1 = g[0] | (p[0] & ci);
+  wire c2 = g[1] | (p[1] & g[0]) | (p[1] & p[0] & ci);
+  assign co = g[3] | (p[3] & g[2]) | (p[3] & p[2] & g[1]) | (p[3] & p[2] & p[0] & g[0])
+            | (p[3] & p[2] & p[1] & p[0] & ci);
+  wire c3 = g[2] | (p[2] & g[1]) | (p[2] & p[1] & g[0]) | (p[2] & p[1] & p[0] & ci);
+  assign s = p ^ {c3, c2, c1, ci};
+endmodule
+module larkspur_add8_cla(input [7:0] a, input [7:0] b, input cin,
+                         output [7:0] sum, output cout);
+  wire c4;
+  larkspur_cla4 lo(.a(a[3:0]), .b(b[3:0]), .ci(cin), .s(sum[3:0]), .co(c4));
+  larkspur_cla4 hi(.a(a[7:4]), .b(b[7:4]), .ci(c4), .s(sum[7:4]), .co(cout));
+endmodule
+"""
+
+
+def test_verilog_bug_in_a_module_used_twice_gives_one_suspect_per_instance(tmp_path):
+    from verify.formats import load
+
+    src = tmp_path / "larkspur_add8_cla.v"
+    src.write_text(LARKSPUR_CLA)
+    d = load(src)
+    spec = specmod.parse(ADD, d)
+    cex = _cex(d, spec, {"a": 3, "b": 13, "cin": 0})
+    assert cex.actual["sum"] != (3 + 13) % 256  # Python integers
+    f = diagnose.diagnose(d, spec, cex)
+    top2 = f["suspects"][:2]
+    assert [s["source"] for s in top2] == [f"{src}:8 lo", f"{src}:8 hi"]
+    assert "should come from lo.p[1], not lo.p[0]" in top2[0]["local_change"]
+    assert "should come from hi.p[1], not hi.p[0]" in top2[1]["local_change"]
+    assert top2[1]["after_repairing"] == [top2[0]["net"]]
+    assert any("together makes all" in n for n in f["notes"])
+    assert any(f"same source line {src}:8" in n for n in f["notes"])

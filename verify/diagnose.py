@@ -60,6 +60,32 @@ def diagnose(design: Netlist, spec, counterexample: Counterexample, *,
     return findings
 
 
+def attach(result, design: Netlist, spec=None, *, vcd_path: str | Path | None = None,
+           dot_path: str | Path | None = None, log_dir: str | Path | None = None) -> list[str]:
+    """For ``verify check``: diagnose ``result.counterexample`` (when there is one), put
+    ``suspects``, ``vcd``, ``dot``, ``svg`` and ``diagnosis`` into ``result.extras`` (so they
+    reach ``--json``) and return the lines for the text report (empty when nothing failed).
+
+    ``spec`` is what ``check`` was given (text, a Spec, or None for the inferred one).
+    """
+    cex = getattr(result, "counterexample", None)
+    if cex is None:
+        return []
+    from verify.check import resolve_spec
+
+    the_spec = resolve_spec(design, spec)
+    findings = diagnose(design, the_spec, cex, vcd_path=vcd_path, dot_path=dot_path,
+                        log_dir=log_dir)
+    result.extras["suspects"] = findings["suspects"]
+    result.extras["vcd"] = findings["vcd"]
+    if findings["dot"]:
+        result.extras["dot"] = findings["dot"]
+        result.extras["svg"] = findings["svg"]
+    result.extras["diagnosis"] = {k: v for k, v in findings.items()
+                                  if k not in ("suspects", "vcd", "dot", "svg")}
+    return render_text(design, the_spec, cex, findings)
+
+
 def explain(design: Netlist, spec, inputs: Mapping[str, int], *,
             vcd_path: str | Path | None = None, dot_path: str | Path | None = None,
             vectors: int = DEFAULT_VECTORS, seed: int = 1, top: int = 5) -> dict[str, Any]:
@@ -130,8 +156,24 @@ def _findings(an: Analysis, cex: Counterexample) -> dict[str, Any]:
         notes.append(f"this vector gives the right outputs, but {an.failing_count()} of "
                      f"{an.count} other vectors simulated fail (for example {other})")
     elif an.suspects and an.suspects[0].repairs < 1.0:
-        notes.append("no single net explains every failing vector: there may be more than one "
-                     "fault; suspects are ranked by how many failing vectors each one repairs")
+        fixes = [s.net for s in an.suspects if s is an.suspects[0] or s.after]
+        if not an.remaining:
+            notes.append(f"no single net explains every failing vector; repairing "
+                         f"{' and '.join(fixes)} together makes all {an.count} vectors right "
+                         f"(one suspect per fault is listed first)")
+        else:
+            notes.append(f"no single net explains every failing vector (more than one fault?); "
+                         f"with {', '.join(fixes)} repaired, {bin(an.remaining).count('1')} "
+                         f"vectors still fail")
+    lines_used: dict[str, list[str]] = {}  # one source line used by several instances
+    for s in an.suspects[:3]:
+        if s.source and " " in s.source:
+            where, inst = s.source.split(" ", 1)
+            lines_used.setdefault(where, []).append(inst)
+    for where, insts in lines_used.items():
+        if len(set(insts)) > 1:
+            notes.append(f"suspects in instances {', '.join(dict.fromkeys(insts))} come from the "
+                         f"same source line {where}: one fix there may repair them all")
     first = _first_wrong_bit(an)
     trace = _trace(an, first) if fails_here and an.suspects else []
     return {
@@ -475,5 +517,5 @@ def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
     return path, svg, None
 
 
-__all__ = ["diagnose", "explain", "render_text", "parse_inputs", "default_vcd_path",
+__all__ = ["diagnose", "attach", "explain", "render_text", "parse_inputs", "default_vcd_path",
            "write_waveform", "write_cone", "NO_MODEL_NOTE"]

@@ -87,13 +87,14 @@ class Suspect:
     order: int  # position in topological order
     why: str = ""
     local: str | None = None  # one change at this gate that gives the value it needs
+    after: list[str] = field(default_factory=list)  # suspects repaired before this one was ranked
 
     def to_json(self, table: Table | None = None) -> dict:
         out = {"net": self.net, "op": self.op, "inputs": list(self.inputs),
                "score": round(self.score, 4), "source": self.source,
                "repairs": round(self.repairs, 4), "must_change_vectors": self.must_change,
                "behaves_like": self.behaves_like, "should_be": self.should_be,
-               "local_change": self.local, "why": self.why}
+               "local_change": self.local, "after_repairing": self.after, "why": self.why}
         return out
 
 
@@ -114,6 +115,7 @@ class Analysis:
     suspects: list[Suspect] = field(default_factory=list)
     repaired: dict[str, int] = field(default_factory=dict)  # values with the top suspect fixed
     candidates_tried: int = 0
+    remaining: int = 0  # word: vectors still failing with every chosen suspect repaired
 
     @property
     def count(self) -> int:
@@ -274,17 +276,52 @@ class _Graph:
         return vals
 
 
+#: at most this many faults are explained one after another
+MAX_FAULTS = 3
+
+
 def _rank(an: Analysis, top: int) -> None:
+    """Rank repair points; when the best one leaves failing vectors, apply its repair and rank
+    again on what still fails (one suspect per fault, up to MAX_FAULTS)."""
     G = _Graph(an.design)
     M = an.mask
     base = [0, M] + [an.values[n] for n in G.nets[2:]]
     exp = [an.expected[b] for b in an.design.output_bits]
-    fail = an.failing
-    nfail = _popcount(fail)
     reach = G.reach_outputs()
+    anc = G.ancestors()
+    fail = an.failing
+    chosen: list[Suspect] = []
+    first: list[Suspect] = []
+    for round_ in range(MAX_FAULTS):
+        ranked, repaired = _rank_once(an, G, base, exp, fail, reach, anc, top)
+        if not ranked:
+            break
+        best = ranked[0]
+        if round_ == 0:
+            first = ranked
+        else:
+            best.after = [c.net for c in chosen]
+            best.why = _why(best, an, _popcount(fail))
+        chosen.append(best)
+        base = repaired
+        fail = 0
+        for o, e in zip(G.outputs, exp):
+            fail |= base[o] ^ e
+        if not fail:
+            break
+    picked = {c.net for c in chosen}
+    an.suspects = (chosen + [s for s in first if s.net not in picked])[:top]
+    an.remaining = fail if chosen else an.failing
+    an.repaired = dict(zip(G.nets[2:], base[2:])) if chosen else {}
+
+
+def _rank_once(an: Analysis, G: _Graph, base: list[int], exp: list[int], fail: int,
+               reach: list[int], anc: list[int], top: int) -> tuple[list[Suspect], list[int]]:
+    M = an.mask
+    nfail = _popcount(fail)
     need = 0
-    for n, b in enumerate(an.design.output_bits):
-        if b in an.wrong_bits:
+    for n, (o, e) in enumerate(zip(G.outputs, exp)):
+        if (base[o] ^ e) & fail:
             need |= 1 << n
     gate_nets = range(G.first_gate, len(G.nets))
     full = [k for k in gate_nets if reach[k] & need == need]
@@ -301,10 +338,9 @@ def _rank(an: Analysis, top: int) -> None:
         if not fixed:
             continue
         results[k] = (fixed, ok_flip)
-    an.candidates_tried = len(results)
+    an.candidates_tried += len(results)
     if not results:
-        return
-    anc = G.ancestors()
+        return [], base
     healthy = {k: bool(an.table and an.table.matches(base[k])) for k in results}
     exact = {k for k, (fixed, _) in results.items() if fixed == fail}
     breaking = 0  # bitset of repair points that break from every reference function
@@ -318,6 +354,7 @@ def _rank(an: Analysis, top: int) -> None:
     if len(local_for) > LOCAL_TESTS:
         local_for = set(sorted(local_for)[:LOCAL_TESTS])
     suspects = []
+    changed: dict[int, int | None] = {}  # net -> its word with the local change applied
     for k, (fixed, ok_flip) in results.items():
         frac = _popcount(fixed) / nfail
         upstream = _popcount(anc[k] & breaking)
@@ -329,6 +366,7 @@ def _rank(an: Analysis, top: int) -> None:
             weight = NO_LOCAL_WEIGHT * (HEALTHY_WEIGHT if healthy[k] else 1.0)
         else:
             weight = _CHANGE_WEIGHT[change[1]] * (HEALTHY_LOCAL_WEIGHT if healthy[k] else 1.0)
+            changed[k] = change[2]
             change = change[0]
         score = frac * weight / (1 + upstream)
         sus = Suspect(g.output, g.op, g.inputs, g.source, score, frac,
@@ -352,11 +390,12 @@ def _rank(an: Analysis, top: int) -> None:
     suspects = suspects[:top]
     for s in suspects:
         s.why = _why(s, an, nfail)
-    an.suspects = suspects
-    best = suspects[0]
-    k = G.index[best.net]
-    vals = G.simulate_forced(base, k, base[k] ^ results[k][0], M)
-    an.repaired = dict(zip(G.nets[2:], vals[2:]))
+    # the repair: the gate with its local change (right on every vector, also where another
+    # fault hides it), else the net flipped on the vectors that flip repairs
+    k = G.index[suspects[0].net]
+    word = changed.get(k)
+    repaired = G.simulate_forced(base, k, word if word is not None else base[k] ^ results[k][0], M)
+    return suspects, repaired
 
 
 def _then(full: list[int], some: list[int], results: dict, fail: int):
@@ -381,7 +420,8 @@ _SAME_ARITY = {1: ("buf", "not"), 2: ("and", "or", "xor", "nand", "nor", "xnor")
 
 
 def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, M: int
-                  ) -> tuple[str, str] | None:
+                  ) -> tuple[str, str, int | None] | None:
+    """(what to change, its kind, the net's word with that change or None)."""
     """One change at the gate driving net k that makes it carry ``required`` on ``care``:
     a constant output, another op, an inverted input, or an input taken from another net."""
     gpos = k - G.first_gate
@@ -393,21 +433,25 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
         return (word & care) == want
 
     if base[k] & care in (0, care) and g.op in ("const0", "const1"):
-        return f"it is tied to {0 if g.op == 'const0' else 1}: its value never changes", "const"
-    stuck = ((f"it is stuck at {1 if base[k] else 0} over every vector", "stuck")
+        return (f"it is tied to {0 if g.op == 'const0' else 1}: its value never changes", "const",
+                None)
+    stuck = ((f"it is stuck at {1 if base[k] else 0} over every vector", "stuck", None)
              if base[k] in (0, M) and not gives(base[k]) else None)
     if not ins:
         return stuck
     xs = [base[i] for i in ins]
     arity = len(xs) if len(xs) <= 3 else 2
     for op in _SAME_ARITY[arity]:
-        if op != g.op and not (op in ("mux", "maj") and len(xs) != 3) and gives(_eval(op, xs, M)):
-            return f"its op should be {op}, not {g.op}", "op"
+        if op != g.op and not (op in ("mux", "maj") and len(xs) != 3):
+            w = _eval(op, xs, M)
+            if gives(w):
+                return f"its op should be {op}, not {g.op}", "op", w
     for pos in range(len(xs)):
         trial = list(xs)
         trial[pos] ^= M
-        if gives(_eval(g.op, trial, M)):
-            return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted", "invert"
+        w = _eval(g.op, trial, M)
+        if gives(w):
+            return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted", "invert", w
     downstream = {G.first_gate + gp for gp in G.cone(k)} | {k}
     for pos in range(len(xs)):
         trial = list(xs)
@@ -415,24 +459,28 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
             if other == ins[pos] or other in downstream:
                 continue
             trial[pos] = base[other]
-            if gives(_eval(g.op, trial, M)):
+            w = _eval(g.op, trial, M)
+            if gives(w):
                 return (f"input {pos + 1} should come from {G.nets[other]}, "
-                        f"not {G.nets[ins[pos]]}"), "source"
+                        f"not {G.nets[ins[pos]]}"), "source", w
     ops = (g.op,) if g.op in ("and", "or", "xor", "nand", "nor", "xnor") else (
         ("and", "or", "xor") if g.op == "buf" else ())
     for op in ops:  # a forgotten input: one more net into the gate
         for other in range(len(G.nets)):
             if other in downstream or other in ins:
                 continue
-            if gives(_eval(op, [*xs, base[other]], M)):
+            w = _eval(op, [*xs, base[other]], M)
+            if gives(w):
                 what = f"{g.op} gate" if op == g.op else f"buf should be {op} and"
                 return (f"this {what} is missing an input: {G.nets[other]} gives the value it "
-                        f"needs"), "missing"
+                        f"needs"), "missing", w
     return stuck
 
 
 def _why(s: Suspect, an: Analysis, nfail: int) -> str:
     parts = []
+    if s.after:
+        parts.append(f"with {', '.join(s.after)} repaired, {nfail} vectors still fail")
     if s.repairs >= 1.0:
         parts.append(f"changing this net alone makes every output right on all {an.count} "
                      f"vectors ({s.must_change} need a different value)")
