@@ -87,7 +87,7 @@ def _carry_chain(values: list[int], widths: list[int]) -> int:
 
 def _fewest_bits(design, miter: Miter, values: list[int], deadline: float) -> list[int]:
     """A failing vector with the fewest set bits, by trying every vector with 1, 2, 3 set bits
-    (while there are at most 20,000 of a count and fewer bits than ``values`` has)."""
+    (while there are at most 40,000 of a count and fewer bits than ``values`` has)."""
     from itertools import combinations
     from math import comb
 
@@ -95,7 +95,7 @@ def _fewest_bits(design, miter: Miter, values: list[int], deadline: float) -> li
     slots = [(k, i) for k, p in enumerate(design.inputs) for i in range(p.width)]
     have = sum(bin(v).count("1") for v in values)
     for count in range(1, min(have, 4)):
-        if comb(len(slots), count) > 20_000 or time.perf_counter() > deadline:
+        if comb(len(slots), count) > 40_000 or time.perf_counter() > deadline:
             break
         cands = []
         for chosen in combinations(slots, count):
