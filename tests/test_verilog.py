@@ -421,9 +421,14 @@ def test_complete_sensitivity_list_is_accepted(tmp_path):
 # ---- round trips through the structural writer --------------------------------------------
 
 @pytest.mark.parametrize("name,params", [("larkspur_rca_gates.v", {"W": 4}), ("larkspur_ks.sv", {"W": 8}),
-                                         ("larkspur_mix.sv", {}), ("larkspur_sadd_flags.sv", {})])
+                                         ("larkspur_mix.sv", {}), ("larkspur_sadd_flags.sv", {}),
+                                         ("larkspur_bk_comb.sv", {"W": 9}),
+                                         ("larkspur_dyn_write.sv", {})])
 def test_round_trip_through_the_writer(tmp_path, name, params):
     n = corpus(name, params=params)
+    from verify.formats import json_netlist
+    again = json_netlist.parse(json_netlist.dumps(n), "round.json")
+    assert again.content_hash() == n.content_hash()  # the JSON form keeps every gate
     text = verilog_writer.dumps(n)
     f = write(tmp_path, "round.v", text)
     back = load([f])
