@@ -677,3 +677,20 @@ def test_break_with_an_outside_loop_variable_is_refused(tmp_path):
               "    end\n  end\nendmodule\n")
     with pytest.raises(InputError, match=r"outer\.sv:5:\d+: break depending on a signal"):
         load([f])
+
+
+def test_shared_module_level_loop_index_is_accepted(tmp_path):
+    f = write(tmp_path, "twoi.v", """
+module twoi(input [3:0] a, b, output reg [3:0] x, output reg [3:0] y);
+  integer i;
+  always @* begin
+    for (i = 0; i < 4; i = i + 1) x[i] = a[i] & b[i];
+  end
+  always @* begin
+    for (i = 0; i < 4; i = i + 1) y[i] = a[i] | b[i];
+  end
+endmodule
+""")
+    sim = Simulator(load([f]))
+    assert all(sim.evaluate({"a": a, "b": b}) == {"x": a & b, "y": a | b}
+               for a in range(16) for b in range(16))
