@@ -361,7 +361,7 @@ def _rank_once(an: Analysis, G: _Graph, base: list[int], exp: list[int], fail: i
         g = G.gates[k - G.first_gate]
         required = base[k] ^ fixed
         care = fixed | (~fail & M & ~ok_flip)
-        change = _local_change(G, base, k, required, care, M) if k in local_for else None
+        change = _local_change(G, base, k, required, care, M, search=k in local_for)
         if change is None:
             weight = NO_LOCAL_WEIGHT * (HEALTHY_WEIGHT if healthy[k] else 1.0)
         else:
@@ -406,7 +406,7 @@ def _then(full: list[int], some: list[int], results: dict, fail: int):
         yield from some
 
 
-#: how many repair points get the local test at most
+#: how many repair points get the full local test (other sources, forgotten inputs) at most
 LOCAL_TESTS = 40
 #: weight of a repair point where no single change at the gate gives the value it needs
 NO_LOCAL_WEIGHT = 0.3
@@ -419,9 +419,12 @@ _SAME_ARITY = {1: ("buf", "not"), 2: ("and", "or", "xor", "nand", "nor", "xnor")
                3: ("and", "or", "xor", "nand", "nor", "xnor", "mux", "maj")}
 
 
-def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, M: int
-                  ) -> tuple[str, str, int | None] | None:
-    """(what to change, its kind, the net's word with that change or None)."""
+def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, M: int,
+                  search: bool = True) -> tuple[str, str, int | None] | None:
+    """(what to change, its kind, the net's word with that change or None).
+
+    ``search=False`` skips the two tests that try every other net (another source, a forgotten
+    input), the costly ones."""
     """One change at the gate driving net k that makes it carry ``required`` on ``care``:
     a constant output, another op, an inverted input, or an input taken from another net."""
     gpos = k - G.first_gate
@@ -452,6 +455,8 @@ def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, 
         w = _eval(g.op, trial, M)
         if gives(w):
             return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted", "invert", w
+    if not search:
+        return stuck
     downstream = {G.first_gate + gp for gp in G.cone(k)} | {k}
     for pos in range(len(xs)):
         trial = list(xs)
