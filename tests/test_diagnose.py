@@ -426,3 +426,22 @@ def test_verilog_bug_in_a_module_used_twice_gives_one_suspect_per_instance(tmp_p
     assert top2[1]["after_repairing"] == [top2[0]["net"]]
     assert any("together makes all" in n for n in f["notes"])
     assert any(f"same source line {src}:8" in n for n in f["notes"])
+
+
+def test_a_spec_without_gates_falls_back_to_integer_evaluation():
+    bad = rewire(ripple(4), "sum[2]", op="or")
+    real = specmod.parse(ADD, bad)
+
+    class NoGates:  # a stand-in whose reference() refuses, as a spec too large for gates does
+        text, inferred = real.text, False
+
+        def evaluate(self, inputs):
+            return real.evaluate(inputs)
+
+        def reference(self):
+            raise InputError("too many bits for a gate-level reference", "spec")
+
+    cex = _cex(bad, real, {"a": 6, "b": 2, "cin": 0})
+    assert cex.actual != cex.expected
+    f = diagnose.diagnose(bad, NoGates(), cex)
+    assert f["suspects"][0]["net"] == "sum[2]"
