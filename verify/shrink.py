@@ -5,6 +5,10 @@ outputs equal the spec"); hypothesis replays it and shrinks it toward smaller op
 only candidates that still fail. Each candidate is checked by simulating the design beside the
 spec's reference; the final one is re-checked against the spec on Python integers. A time limit
 bounds the work: past it, no further candidate is accepted.
+
+After hypothesis: set bits are cleared one by one; every vector with 1, 2 or 3 set bits is tried
+(while there are at most 40,000 of a count), so the fewest set bits win; then pairs of bits at one
+position are cleared or moved down while (set bits, longest carry chain, operand size) decreases.
 """
 
 from __future__ import annotations
