@@ -16,9 +16,10 @@ input: a forgotten term) and ``double`` (two faults at two gates; a hit is eithe
     python benchmarks/bench_diagnose.py [--faults-per-design 12] [--seed 1] [--quick]
         [--widths 4,8,16,32] [--kinds wrong-input,wrong-op,...] [--show-misses]
 
-Figures (seed 1, 12 faults per design, widths 4/8/16/32, 528 faults; 2 cores):
-issue's kinds 99.8% first, 100% first three, median 0.04 s per diagnosis;
-dropped-input 89.2% / 97.3%; seed 2 at width 64 (66 faults): see notes/readme-diagnose.md.
+Figures on 2 cores (first suspect / in first three / random pick of 3 in the failing cone):
+issue's kinds, seed 1, widths 4..32, 528 faults: 99.8% / 100% / 31.6%, median 0.025 s each;
+seed 3, 352 faults: 99.1% / 100%; width 64, seed 2, 66 faults: 98.5% / 100% / 13.0%, median
+0.36 s; dropped-input 89.2% / 97.3%; double 93.6% / 98.3%.
 """
 
 from __future__ import annotations
