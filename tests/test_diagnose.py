@@ -445,3 +445,23 @@ def test_a_spec_without_gates_falls_back_to_integer_evaluation():
     assert cex.actual != cex.expected
     f = diagnose.diagnose(bad, NoGates(), cex)
     assert f["suspects"][0]["net"] == "sum[2]"
+
+
+def test_model_of_an_adder_subtractor_and_a_fault_in_its_xor_stage():
+    b = GateBuilder(fold=False, share=False)
+    bx = [b.xor_(x, "sub") for x in Port("b", 6).bits]
+    s, c = b.add(Port("a", 6).bits, bx, "sub")
+    good = b.netlist("larkspur_addsub6", [Port("a", 6), Port("b", 6), Port("sub", 1)],
+                     {"sum": s, "cout": [c]})
+    spec = specmod.parse("sum = sub ? a - b : a + b; cout = sub ? a >= b : a + b > 63", good)
+    m = detect(good, spec)
+    assert m is not None and m.describe() == "a + (b ^ sub) + sub"
+    for a, bb, sub in [(9, 3, 1), (3, 9, 1), (40, 30, 0), (0, 0, 1)]:
+        want = (a - bb) % 64 if sub else (a + bb) % 64  # Python integers
+        assert m.outputs_of({"a": a, "b": bb, "sub": sub})["sum"] == want
+    bad = rewire(good, bx[3], op="xnor")
+    cex = _cex(bad, spec, {"a": 0, "b": 0, "sub": 0})
+    assert cex.actual != cex.expected
+    f = diagnose.diagnose(bad, spec, cex)
+    assert f["suspects"][0]["net"] == bx[3]
+    assert f["suspects"][0]["local_change"] == "its op should be xor, not xnor"
