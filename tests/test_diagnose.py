@@ -271,6 +271,16 @@ def test_dot_cone_highlights_the_suspect_and_renders(tmp_path):
                        capture_output=True)
 
 
+def test_without_graphviz_only_the_dot_file_is_written(tmp_path, monkeypatch):
+    monkeypatch.setattr(diagnose.shutil, "which", lambda name: None)
+    bad = rewire(ripple(4), "sum[1]", op="or")
+    spec = specmod.parse(ADD, bad)
+    f = diagnose.diagnose(bad, spec, _cex(bad, spec, {"a": 1, "b": 1, "cin": 0}),
+                          dot_path=tmp_path / "c.dot")
+    assert f["dot"] and f["svg"] is None and not (tmp_path / "c.svg").exists()
+    assert any("'dot' is not installed" in n for n in f["notes"])
+
+
 def test_default_waveform_goes_to_the_log_dir(tmp_path):
     bad = rewire(ripple(4), "sum[1]", op="or")
     spec = specmod.parse(ADD, bad)
@@ -333,6 +343,10 @@ def test_explain_a_failing_vector(bad_file, capsys, tmp_path):
     assert "1. sum[3] = or(" in out
     assert "first wrong value travels: sum[3]" in out
     assert (tmp_path / "e.vcd").exists()
+    code, out, _ = _run(["explain", str(bad_file), "--input", "a=12,b=4", "--dot",
+                         str(tmp_path / "e.dot")], capsys)
+    assert code == 1 and (tmp_path / "e.dot").read_text().startswith("digraph")
+    assert f"cone picture: {tmp_path / 'e.dot'}" in out
 
 
 def test_explain_a_right_vector_exits_0_and_says_other_vectors_fail(bad_file, capsys):

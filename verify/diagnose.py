@@ -474,7 +474,7 @@ def write_waveform(an: Analysis, spec, path: str | Path) -> Path:
                 v |= (an.expected[b] >> j & 1) << i
             e[p.name] = v
         expected.append(e)
-    comment = (f"adder-verify diagnosis of {an.design.name}: step 0 is the counterexample, "
+    comment = (f"adder-verify diagnosis of {an.design.name}: step 0 is the vector diagnosed, "
                f"steps 1.. are other failing vectors")
     try:
         return vcd.write(path, an.design, vectors, expected=expected, comment=comment)
