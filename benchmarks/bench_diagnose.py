@@ -215,7 +215,8 @@ def main(argv=None) -> int:
     if args.show_misses:
         for m in misses:
             print("not first:", *m)
-    return 0
+    # the floor (benchmarks/run.py exits 1 on a miss): the aim, for the kinds
+    return 0 if t >= 0.9 * n or set(kinds) - set(KINDS) else 1
 
 
 if __name__ == "__main__":
