@@ -147,13 +147,20 @@ def verilog_options(f):
 @click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
 @verilog_options
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
-@click.option("--log-dir", default="logs", show_default=True, help="Where runs.jsonl is appended.")
-@click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl.")
+@click.option("--log-dir", default="logs", show_default=True,
+              help="Where runs.jsonl is appended and a failure's waveform is written.")
+@click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl (nor write a waveform there).")
+@click.option("--vcd", "vcd_path", metavar="FILE", help="On a failure, write the waveform here "
+              "(default: a file in the log dir).")
+@click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
+              "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
+@click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
-              params, include_dirs, defines, as_json, log_dir, no_log):
+              params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
+              no_diagnose):
     """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
-    from verify import logbook
-    from verify.check import check
+    from verify import diagnose, logbook
+    from verify.check import check, resolve_spec
     from verify.formats import load
 
     try:
@@ -161,30 +168,36 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
         sweep_params = parse_params(params)
         define_map = parse_defines(defines)
         units = design_units(paths)
+        if (vcd_path or dot_path) and (len(units) > 1 or len(sweep(sweep_params)) > 1):
+            raise InputError("--vcd and --dot take one design at one parameter value")
     except InputError as e:
         return _input_error(e, as_json)
-    runs = []  # (label, params, result or error)
+    runs = []  # (label, params, result or error, diagnosis lines)
     for files in units:
         for point in sweep(sweep_params):
             label = " ".join(str(f) for f in files)
             try:
                 design = load(files, top=top, params=point, include_dirs=include_dirs,
                               defines=define_map)
-                result = check(design, spec, engine=engine, seed=seed, vectors=vectors,
-                                   timeout=timeout, require=require,
-                                   exhaustive_limit=exhaustive_limit, shard=shard_t,
-                                   progress=_progress(as_json))
+                the_spec = resolve_spec(design, spec)
+                result = check(design, the_spec, engine=engine, seed=seed, vectors=vectors,
+                               timeout=timeout, require=require,
+                               exhaustive_limit=exhaustive_limit, shard=shard_t,
+                               progress=_progress(as_json))
+                lines = [] if no_diagnose else diagnose.attach(
+                    result, design, the_spec, vcd_path=vcd_path, dot_path=dot_path,
+                    log_dir=None if no_log else log_dir)
             except InputError as e:
                 if len(units) == 1 and len(sweep(sweep_params)) == 1:
                     return _input_error(e, as_json)
-                runs.append((label, point, e))
+                runs.append((label, point, e, []))
                 continue
             if not no_log:
                 try:
                     logbook.record(result, log_dir, files, point)
                 except OSError as e:
                     click.echo(f"warning: could not write the run log in {log_dir}: {e}", err=True)
-            runs.append((label, point, result))
+            runs.append((label, point, result, lines))
     return _report(runs, as_json, several=len(runs) > 1)
 
 
@@ -216,7 +229,7 @@ def _report(runs, as_json: bool, several: bool) -> int:
     codes = []
     if as_json:
         items = []
-        for label, point, r in runs:
+        for label, point, r, _ in runs:
             if isinstance(r, InputError):
                 items.append({"ok": False, "verdict": "error", "error": str(r), "files": label,
                               "params": point})
@@ -226,14 +239,14 @@ def _report(runs, as_json: bool, several: bool) -> int:
                 codes.append(r.exit_code)
         click.echo(reports.dumps(items if several else items[0]))
         return worst(codes)
-    for n, (label, point, r) in enumerate(runs):
+    for n, (label, point, r, lines) in enumerate(runs):
         if n:
             click.echo("\n" + "-" * 78)
         if isinstance(r, InputError):
             click.echo(f"error: {r}")
             codes.append(2)
             continue
-        click.echo(reports.render_text(r, params=point or None))
+        click.echo(reports.render_text(r, params=point or None, diagnosis=lines))
         codes.append(r.exit_code)
     if several:
         click.echo("\n" + "=" * 78)
@@ -243,7 +256,7 @@ def _report(runs, as_json: bool, several: bool) -> int:
 
 def summary_table(runs) -> str:
     lines = ["summary:"]
-    for label, point, r in runs:
+    for label, point, r, _ in runs:
         p = " ".join(f"{k}={v}" for k, v in point.items())
         name = f"{label} {p}".strip()
         if isinstance(r, InputError):
@@ -252,7 +265,7 @@ def summary_table(runs) -> str:
             engines = "+".join(e.engine for e in r.engines if e.status != "skipped")
             lines.append(f"  {r.verdict.value.upper():<13} {name}  ({engines}, {r.seconds:.2f} s)")
     counts: dict[str, int] = {}
-    for _, _, r in runs:
+    for _, _, r, _ in runs:
         v = "error" if isinstance(r, InputError) else r.verdict.value
         counts[v] = counts.get(v, 0) + 1
     lines.append("  " + ", ".join(f"{n} {v}" for v, n in counts.items()))
@@ -297,8 +310,8 @@ def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
 
 # ---- the other commands, each in the module of its concern ---------------------------------
 def _register_commands() -> None:
-    from verify import cli_gate, cli_library
-    for module in (cli_library, cli_gate):
+    from verify import cli_diagnose, cli_gate, cli_library
+    for module in (cli_library, cli_diagnose, cli_gate):
         module.register(cli)
 
 

@@ -15,6 +15,7 @@ engines' (the counterexample was re-simulated and re-evaluated before it got her
 
 from __future__ import annotations
 
+import re
 import shutil
 import subprocess
 from pathlib import Path
@@ -23,8 +24,11 @@ from typing import Any, Mapping
 from verify.diagnose_locate import DEFAULT_VECTORS, Analysis, analyse
 from verify.diagnose_model import AdderModel
 from verify.errors import InputError
+from verify.outputs import write_text
 from verify.netlist import CONSTANTS, Netlist
 from verify.result import Counterexample
+
+_FILE_LINE = re.compile(r"^(?P<where>\S+:\d+) (?P<inst>\S.*)$")
 
 NO_MODEL_NOTE = ("no reference-function model applies to this spec (it is not A + B + carry "
                  "with outputs that are slices of the sum): suspects are ranked by single-net "
@@ -167,9 +171,9 @@ def _findings(an: Analysis, cex: Counterexample) -> dict[str, Any]:
                          f"vectors still fail")
     lines_used: dict[str, list[str]] = {}  # one source line used by several instances
     for s in an.suspects[:3]:
-        if s.source and " " in s.source:
-            where, inst = s.source.split(" ", 1)
-            lines_used.setdefault(where, []).append(inst)
+        m = _FILE_LINE.match(s.source or "")
+        if m:  # Verilog sources read "file.sv:LINE instance.path"
+            lines_used.setdefault(m["where"], []).append(m["inst"])
     for where, insts in lines_used.items():
         if len(set(insts)) > 1:
             notes.append(f"suspects in instances {', '.join(dict.fromkeys(insts))} come from the "
@@ -476,10 +480,8 @@ def write_waveform(an: Analysis, spec, path: str | Path) -> Path:
         expected.append(e)
     comment = (f"adder-verify diagnosis of {an.design.name}: step 0 is the vector diagnosed, "
                f"steps 1.. are other failing vectors")
-    try:
-        return vcd.write(path, an.design, vectors, expected=expected, comment=comment)
-    except OSError as e:
-        raise InputError(f"cannot write the waveform: {e.strerror or e}", str(path)) from None
+    return write_text(path, vcd.dumps(an.design, vectors, expected=expected, comment=comment),
+                      what="waveform", replace_reports=True)
 
 
 def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
@@ -499,21 +501,23 @@ def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
         diverging = {n for n in an.repaired if (an.values[n] ^ an.repaired[n]) & 1}
     text = cone_dot(an.design, target, suspects, diverging,
                     values={n: an.values[n] & 1 for n in an.values})
-    path = Path(path)
-    try:
-        path.parent.mkdir(parents=True, exist_ok=True)
-        path.write_text(text, encoding="utf-8")
-    except OSError as e:
-        raise InputError(f"cannot write the cone picture: {e.strerror or e}", str(path)) from None
+    path = write_text(path, text, what="cone picture", replace_reports=True)
     exe = shutil.which("dot")
     if exe is None:
         return path, None, "Graphviz 'dot' is not installed: wrote the DOT file only"
     svg = path.with_suffix(".svg")
     try:
-        subprocess.run([exe, "-Tsvg", str(path), "-o", str(svg)], check=True, timeout=60,
-                       capture_output=True)
+        done = subprocess.run([exe, "-Tsvg", str(path)], check=True, timeout=60,
+                              capture_output=True, text=True)
     except (subprocess.SubprocessError, OSError) as e:
         return path, None, f"Graphviz 'dot' could not render the SVG: {e}"
+    # the mark goes near the top (after the XML declaration, which must come first), so that
+    # a later run may replace this picture but nothing else
+    head, nl, rest = done.stdout.partition("\n")
+    if not head.startswith("<?xml"):
+        head, nl, rest = "", "", done.stdout
+    write_text(svg, f"{head}{nl}<!-- adder-verify: rendered from {path.name} -->\n{rest}",
+               what="cone picture", replace_reports=True)
     return path, svg, None
 
 

@@ -40,7 +40,8 @@ def cone_dot(design: Netlist, target: str, suspects: Iterable[str] = (),
     diverging = set(diverging)
     values = values or {}
     nets = cone(design, target)
-    lines = [f"digraph {_q(design.name + ' cone of ' + target)} {{",
+    lines = [f"// adder-verify: fan-in cone of {target} in {design.name}",
+             f"digraph {_q(design.name + ' cone of ' + target)} {{",
              "  rankdir=LR;",
              '  node [fontname="Helvetica", fontsize=10];',
              f"  label={_q(f'{design.name}: fan-in cone of {target}; red = first suspect, pink = next suspects, orange = wrong value on the counterexample')};",

@@ -25,7 +25,9 @@ def _num(v: int, width: int) -> str:
     return f"{v:>{len(str(2 ** width - 1))}}  0x{v:0{digits}x}"
 
 
-def render_text(result: CheckResult, *, params: dict | None = None) -> str:
+def render_text(result: CheckResult, *, params: dict | None = None,
+                diagnosis: list[str] | None = None) -> str:
+    """The report of one check; ``diagnosis`` lines (suspects, bit table) follow a failure."""
     lines = []
     where = f"  ({result.origin})" if result.origin else ""
     lines.append(f"design  {result.design}{where}")
@@ -45,6 +47,9 @@ def render_text(result: CheckResult, *, params: dict | None = None) -> str:
     cex = result.counterexample
     if cex is not None:
         lines.extend(render_counterexample(result))
+    if diagnosis:
+        lines.append("")
+        lines.extend(diagnosis)
     lines.append("")
     lines.append(f"note: {SCOPE_NOTE}")
     return "\n".join(lines)
