@@ -20,9 +20,10 @@ def _ports(ports: dict[str, int]) -> str:
     return ", ".join(n if w == 1 else f"{n}[{w - 1}:0]" for n, w in ports.items())
 
 
-def _num(v: int, width: int) -> str:
+def _num(v: int, width: int, field: int = 0) -> str:
+    """Decimal, right-aligned to ``field`` characters, then hex at the port's width."""
     digits = max(1, (width + 3) // 4)
-    return f"{v:>{len(str(2 ** width - 1))}}  0x{v:0{digits}x}"
+    return f"{v:>{max(field, len(str(2 ** width - 1)))}}  0x{v:0{digits}x}"
 
 
 def render_text(result: CheckResult, *, params: dict | None = None,
@@ -59,14 +60,16 @@ def render_counterexample(result: CheckResult) -> list[str]:
     cex = result.counterexample
     ins, outs = result.ports["inputs"], result.ports["outputs"]
     name_w = max(len(n) for n in (*ins, *outs))
+    field = max(len(str(2 ** w - 1)) for w in (*ins.values(), *outs.values()))
     lines = ["", "counterexample:"]
     for n, w in ins.items():
-        lines.append(f"  in   {n:<{name_w}} = {_num(cex.inputs[n], w)}")
+        lines.append(f"  in   {n:<{name_w}}  {_num(cex.inputs[n], w, field)}")
     wrong = cex.wrong_bits()
     for n, w in outs.items():
         exp, act = cex.expected[n], cex.actual[n]
         mark = "  wrong bits: " + ", ".join(str(b) for b in wrong[n]) if n in wrong else "  ok"
-        lines.append(f"  out  {n:<{name_w}}   expected {_num(exp, w)}   actual {_num(act, w)}{mark}")
+        lines.append(f"  out  {n:<{name_w}}  {_num(exp, w, field)} expected, "
+                     f"{_num(act, w, field)} actual{mark}")
     return lines
 
 
