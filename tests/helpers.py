@@ -55,3 +55,14 @@ def array_multiplier(width: int) -> Netlist:
         row = ["0"] * j + [b.and_(x, b_bits[j]) for x in a_bits] + ["0"] * (width - j)
         acc, _ = b.add(acc, row)
     return b.netlist(f"mul{width}", [Port("a", width), Port("b", width)], {"p": acc})
+
+
+#: prefix levels and node counts for n = 2^L, as tabulated in D. Harris, "A Taxonomy of Parallel
+#: Prefix Networks" (2003), from memory: name -> (n, L) -> (levels, nodes)
+HARRIS_2003 = {
+    "serial-prefix": lambda n, L: (n - 1, n - 1),
+    "sklansky": lambda n, L: (L, n // 2 * L),
+    "kogge-stone": lambda n, L: (L, n * L - n + 1),
+    "brent-kung": lambda n, L: (2 * L - 1, 2 * n - 2 - L),
+    "han-carlson": lambda n, L: (L + 1, n // 2 * L),
+}

@@ -18,6 +18,7 @@ import numpy as np
 import pytest
 import z3
 
+from tests.helpers import HARRIS_2003
 from verify.architectures import ARCHITECTURES, PREFIX_SOURCE, generate, prefix_schedule
 from verify.errors import InputError
 from verify.netlist import Gate, Netlist, Port
@@ -300,14 +301,8 @@ def _prefix_nodes(n: Netlist) -> tuple[int, int]:
     return len(labels), max(levels, default=0)
 
 
-# Harris (2003), Table 1, from memory: (levels, nodes) for n = 2^L
-HARRIS = {
-    "serial-prefix": lambda n, L: (n - 1, n - 1),
-    "sklansky": lambda n, L: (L, n // 2 * L),
-    "kogge-stone": lambda n, L: (L, n * L - n + 1),
-    "brent-kung": lambda n, L: (2 * L - 1, 2 * n - 2 - L),
-    "han-carlson": lambda n, L: (L + 1, n // 2 * L),
-}
+# Harris (2003), from memory: (levels, nodes) for n = 2^L
+HARRIS = HARRIS_2003
 
 
 @pytest.mark.parametrize("arch", list(HARRIS))

@@ -14,6 +14,7 @@ import click
 import pytest
 from click.testing import CliRunner
 
+from tests.helpers import HARRIS_2003
 from verify.architectures import ARCHITECTURES, generate
 from verify.cli_library import register
 from verify.formats import json_netlist
@@ -74,13 +75,7 @@ def test_ripple_depth_is_linear():
         assert s["depth"] == 2 * n + 1
 
 
-HARRIS = {  # D. Harris, "A Taxonomy of Parallel Prefix Networks" (2003), from memory
-    "serial-prefix": lambda n, L: (n - 1, n - 1),
-    "sklansky": lambda n, L: (L, n // 2 * L),
-    "kogge-stone": lambda n, L: (L, n * L - n + 1),
-    "brent-kung": lambda n, L: (2 * L - 1, 2 * n - 2 - L),
-    "han-carlson": lambda n, L: (L + 1, n // 2 * L),
-}
+HARRIS = HARRIS_2003  # D. Harris, "A Taxonomy of Parallel Prefix Networks" (2003), from memory
 
 
 @pytest.mark.parametrize("arch", list(HARRIS))
