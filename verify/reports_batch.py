@@ -115,6 +115,13 @@ def render_table(summary) -> str:
                                for i, (cell, w) in enumerate(zip(row, widths))).rstrip())
         if n == 0:
             lines.append("  ".join("-" * w for w in widths))
+    caught = [(r["label"], counterexample_text(r)) for r in summary.records
+              if r["ok"] and r["expect"] == "fail" and r.get("counterexample")]
+    if caught:
+        lines.append("")
+        lines.append("broken on purpose, caught with these counterexamples:")
+        for name, text in caught:
+            lines.append(f"  {name}: {text}")
     problems = [(r["label"], problem_text(r)) for r in summary.records if not r["ok"]]
     if problems:
         lines.append("")
