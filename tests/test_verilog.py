@@ -694,3 +694,38 @@ endmodule
     sim = Simulator(load([f]))
     assert all(sim.evaluate({"a": a, "b": b}) == {"x": a & b, "y": a | b}
                for a in range(16) for b in range(16))
+
+
+# A recursive conditional adder: radd instantiates itself under a generate-if, so slang finds no
+# module that nobody instantiates and cannot pick a top on its own.
+_RECURSIVE_ADDER = """\
+module radd #(parameter W = 4) (input [W-1:0] a, b, input cin, output [W-1:0] sum, output cout);
+  generate if (W == 1) begin : leaf
+    assign {cout, sum} = a + b + cin;
+  end else begin : split
+    localparam L = W / 2;
+    wire c;
+    radd #(.W(L)) lo (.a(a[L-1:0]), .b(b[L-1:0]), .cin(cin), .sum(sum[L-1:0]), .cout(c));
+    radd #(.W(W-L)) hi (.a(a[W-1:L]), .b(b[W-1:L]), .cin(c), .sum(sum[W-1:L]), .cout(cout));
+  end endgenerate
+endmodule
+"""
+
+
+def test_recursive_module_asks_for_top_and_works_with_it(tmp_path):
+    p = write(tmp_path, "radd.sv", _RECURSIVE_ADDER)
+    with pytest.raises(InputError) as e:
+        load([p])
+    msg = str(e.value)
+    assert "every module is instantiated by another" in msg and "--top" in msg
+    assert "(modules: radd)" in msg and "radd.sv" in msg
+    assert "no module found" not in msg
+    n = load([p], top="radd", params={"W": 5})
+    vecs = [{"a": a, "b": b, "cin": c} for a in range(32) for b in range(32) for c in (0, 1)]
+    assert run(n, vecs) == [_add(v, 5) for v in vecs]  # against Python integers
+
+
+def test_file_without_modules_still_says_none_found(tmp_path):
+    p = write(tmp_path, "pk.sv", "package pk; localparam int X = 1; endpackage\n")
+    with pytest.raises(InputError, match="no module found in the given files"):
+        load([p])

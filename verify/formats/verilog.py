@@ -207,6 +207,14 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
             defs = sorted({d.name for d in _definitions(comp)})
             raise InputError(f"no module named '{top}' (modules: {', '.join(defs) or 'none'})", first)
     if not tops:
+        modules = sorted({d.name for d in _definitions(comp) if _is_module(d)})
+        if modules:
+            # slang takes as top only a module nobody instantiates; a module that instantiates
+            # itself (a recursive adder under a generate-if) or a set of cells that all use one
+            # another leaves none
+            raise InputError("every module is instantiated by another (recursive, or a library "
+                             "of cells); name the top with --top "
+                             f"(modules: {', '.join(modules)})", first)
         raise InputError("no module found in the given files", first)
     if len(tops) > 1:
         names = ", ".join(sorted(t.name for t in tops))
@@ -257,6 +265,11 @@ def _definitions(comp):
         return [d for d in comp.getDefinitions() if getattr(d, "name", None)]
     except Exception:  # pragma: no cover - older pyslang
         return []
+
+
+def _is_module(definition) -> bool:
+    from pyslang import ast
+    return getattr(definition, "definitionKind", None) == ast.DefinitionKind.Module
 
 
 def _check_params(inst, params: Mapping[str, int], locator: Locator) -> None:
