@@ -261,7 +261,7 @@ def test_dot_cone_highlights_the_suspect_and_renders(tmp_path):
     f = diagnose.diagnose(bad, spec, cex, dot_path=tmp_path / "cone.dot",
                           vcd_path=tmp_path / "w.vcd")
     text = (tmp_path / "cone.dot").read_text()
-    assert text.startswith("// adder-verify") and "\ndigraph " in text
+    assert text.startswith("// adder-verify report (dot)") and "\ndigraph " in text
     assert '"G_3_0" [' in text and "#e04040" in text  # the first suspect filled red
     assert f["vcd"] == str(tmp_path / "w.vcd") and (tmp_path / "w.vcd").exists()
     if shutil.which("dot"):

@@ -19,16 +19,31 @@ def test_a_design_output_never_replaces_an_existing_file(tmp_path):
     assert f.read_text() == "new"
 
 
-def test_a_report_replaces_only_an_earlier_report_of_this_tool(tmp_path):
+JUNIT = '<?xml version="1.0"?>\n<!-- adder-verify report (junit) -->\n<testsuites tests="{}"/>\n'
+
+
+def test_a_report_replaces_only_an_earlier_report_of_the_same_kind(tmp_path):
     f = tmp_path / "report.xml"
-    write_text(f, '<testsuites name="adder-verify run"/>', replace_reports=True)
-    write_text(f, '<testsuites name="adder-verify run" tests="2"/>', replace_reports=True)
+    write_text(f, JUNIT.format(1), replace_reports=True)
+    write_text(f, JUNIT.format(2), replace_reports=True)
     assert 'tests="2"' in f.read_text()
-    mine = tmp_path / "notes.xml"
-    mine.write_text("<my-notes/>")
-    with pytest.raises(InputError, match="not written by adder-verify"):
-        write_text(mine, "<x/>", replace_reports=True)
-    assert mine.read_text() == "<my-notes/>"
+    with pytest.raises(InputError, match="not an earlier report of this kind"):
+        write_text(f, "<!-- adder-verify report (markdown) -->\n# x\n", replace_reports=True)
+    assert 'tests="2"' in f.read_text()
+
+
+@pytest.mark.parametrize("existing", [
+    "<my-notes/>",
+    "# Design notes\nWe use adder-verify for sign-off.\n",  # merely mentions the tool
+    "// written by adder-verify from 'ks8': 70 gates\nmodule ks8 (\n",  # a design we exported
+    "",
+])
+def test_a_report_never_replaces_a_file_the_user_wrote(tmp_path, existing):
+    mine = tmp_path / "NOTES.md"
+    mine.write_text(existing)
+    with pytest.raises(InputError, match="refusing to overwrite"):
+        write_text(mine, JUNIT.format(1), replace_reports=True)
+    assert mine.read_text() == existing
 
 
 def test_generate_refuses_to_overwrite_without_force(tmp_path, capsys):

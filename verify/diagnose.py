@@ -516,7 +516,7 @@ def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
     head, nl, rest = done.stdout.partition("\n")
     if not head.startswith("<?xml"):
         head, nl, rest = "", "", done.stdout
-    write_text(svg, f"{head}{nl}<!-- adder-verify: rendered from {path.name} -->\n{rest}",
+    write_text(svg, f"{head}{nl}<!-- adder-verify report (svg): rendered from {path.name} -->\n{rest}",
                what="cone picture", replace_reports=True)
     return path, svg, None
 

@@ -40,7 +40,7 @@ def cone_dot(design: Netlist, target: str, suspects: Iterable[str] = (),
     diverging = set(diverging)
     values = values or {}
     nets = cone(design, target)
-    lines = [f"// adder-verify: fan-in cone of {target} in {design.name}",
+    lines = [f"// adder-verify report (dot): fan-in cone of {target} in {design.name}",
              f"digraph {_q(design.name + ' cone of ' + target)} {{",
              "  rankdir=LR;",
              '  node [fontname="Helvetica", fontsize=10];',

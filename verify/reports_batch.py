@@ -204,7 +204,8 @@ def render_junit(summary, suite_name: str | None = None) -> str:
         out = ET.SubElement(case, "system-out")
         out.text = _x(_details(r))
     ET.indent(root)
-    return '<?xml version="1.0" encoding="utf-8"?>\n' + ET.tostring(root, encoding="unicode") + "\n"
+    return ('<?xml version="1.0" encoding="utf-8"?>\n<!-- adder-verify report (junit) -->\n'
+            + ET.tostring(root, encoding="unicode") + "\n")
 
 
 def _details(r: dict[str, Any]) -> str:
@@ -232,7 +233,8 @@ def _md(text: str) -> str:
 def render_markdown(summary) -> str:
     """A short Markdown summary for a pull-request comment."""
     mark = "✅" if summary.ok else "❌"
-    lines = [f"### {mark} adder-verify: {_md(headline(summary))}", ""]
+    lines = ["<!-- adder-verify report (markdown) -->",
+             f"### {mark} adder-verify: {_md(headline(summary))}", ""]
     records = summary.records
     shown = records if len(records) <= MARKDOWN_ROWS else [r for r in records if not r["ok"]]
     if shown:

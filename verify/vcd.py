@@ -122,7 +122,8 @@ def dumps(design: Netlist, vectors: Sequence[Mapping[str, int]], *,
         add([top, SPEC_SCOPE], 1, "fails", fails)
 
     lines = [f"$date {date or _dt.datetime.now(_dt.timezone.utc).strftime('%Y-%m-%d %H:%M:%S UTC')} $end",
-             f"$version adder-verify {__version__} $end"]
+             f"$version adder-verify {__version__} $end",
+             "$comment adder-verify report (vcd) $end"]
     if comment:
         lines.append(f"$comment {comment.replace('$end', '(end)')} $end")
     for j, v in enumerate(vectors):
