@@ -212,3 +212,51 @@ def test_stats_command_bad_file(cli, tmp_path):
     assert r.exit_code == 2
     err = r.stderr if hasattr(r, "stderr") else r.output
     assert "bad.json" in err and "'q'" in err and err.count("\n") == 1
+
+
+_PARAM_ADDER = """\
+`include "widths.vh"
+`ifndef LARKSPUR_EXTRA
+`define LARKSPUR_EXTRA 0
+`endif
+module larkspur_pa #(parameter W = 4) (input [W-1:0] a, b, output [W+`LARKSPUR_EXTRA:0] s);
+  assign s = a + b;
+endmodule
+"""
+
+
+def test_stats_takes_the_verilog_options(cli, tmp_path):
+    inc = tmp_path / "inc"
+    inc.mkdir()
+    (inc / "widths.vh").write_text("// nothing but a comment\n")
+    src = tmp_path / "pa.sv"
+    src.write_text(_PARAM_ADDER)
+    r = CliRunner().invoke(cli, ["stats", str(src), "--param", "W=8", "-I", str(inc), "--json",
+                                 "-D", "LARKSPUR_EXTRA=2", "--top", "larkspur_pa"])
+    assert r.exit_code == 0, r.output
+    data = json.loads(r.output)
+    assert data["inputs"] == {"a": 8, "b": 8} and data["outputs"] == {"s": 11}
+    r = CliRunner().invoke(cli, ["stats", str(src), "--param", "W=3", "-I", str(inc)])
+    assert r.exit_code == 0, r.output
+    assert r.output.startswith("larkspur_pa: inputs a[2:0], b[2:0]; outputs s[3:0]")
+
+
+@pytest.mark.parametrize("args,words", [
+    (["--param", "W=8,16"], ["--param W: stats takes one value per parameter"]),
+    (["--param", "X=8"], ["--param X", "no parameter 'X'", "(parameters: W)"]),
+    (["--param", "W"], ["--param 'W': write NAME=VALUE"]),
+    (["-D", "A B"], ["'A B'", "macro name"]),
+])
+def test_stats_verilog_option_errors_are_one_line(cli, tmp_path, args, words):
+    inc = tmp_path / "inc"
+    inc.mkdir()
+    (inc / "widths.vh").write_text("\n")
+    src = tmp_path / "pa.sv"
+    src.write_text(_PARAM_ADDER)
+    r = CliRunner().invoke(cli, ["stats", str(src), "-I", str(inc), *args])
+    assert r.exit_code == 2
+    err = r.stderr if hasattr(r, "stderr") else r.output
+    assert err.startswith("error: ") and err.count("\n") == 1, err
+    for w in words:
+        assert w in err, err
+    assert "Traceback" not in r.output

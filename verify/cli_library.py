@@ -82,16 +82,19 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
         click.echo(text, nl=False)
 
 
-@click.command("stats")
-@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
-@click.option("--top", help="Top module (Verilog).")
-@click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")
-def stats_cmd(paths, top, as_json):
+def _stats(paths, top, params, include_dirs, defines, as_json):
     """Gate counts, logic depth, the longest path, fanout and prefix nodes of a design."""
+    from verify.cli import parse_defines, parse_params
     from verify.formats import load
     from verify.stats import format_text, stats
     try:
-        netlist = load(list(paths), top=top)
+        point = parse_params(params)
+        swept = sorted(name for name, values in point.items() if len(values) > 1)
+        if swept:
+            raise InputError(f"--param {swept[0]}: stats takes one value per parameter "
+                             f"(figures of a sweep are not combined); run it once per value")
+        netlist = load(list(paths), top=top, params={k: v[0] for k, v in point.items()},
+                       include_dirs=list(include_dirs), defines=parse_defines(defines))
     except InputError as e:
         _fail(e)
     figures = stats(netlist)
@@ -101,7 +104,28 @@ def stats_cmd(paths, top, as_json):
         click.echo(format_text(figures))
 
 
+_STATS_CMD: click.Command | None = None
+
+
+def stats_command() -> click.Command:
+    """The ``stats`` command, built on first use: its Verilog options (--top, --param, -I, -D)
+    are the shared ones of verify.cli, which imports this module, so they are fetched late."""
+    global _STATS_CMD
+    if _STATS_CMD is None:
+        from verify.cli import verilog_options  # (may register this module first: look again)
+    if _STATS_CMD is None:
+        cmd = click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")(_stats)
+        cmd = verilog_options(cmd)
+        cmd = click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")(cmd)
+        cmd = click.command("stats")(cmd)
+        for p in cmd.params:
+            if p.name == "params":  # the shared help speaks of sweeps, which stats refuses
+                p.metavar, p.help = "NAME=V", "Verilog: override a parameter (one value)."
+        _STATS_CMD = cmd
+    return _STATS_CMD
+
+
 def register(main: click.Group) -> None:
     """Add ``generate`` and ``stats`` to the main command group."""
     main.add_command(generate_cmd)
-    main.add_command(stats_cmd)
+    main.add_command(stats_command())
