@@ -196,3 +196,15 @@ def test_a_changed_submodule_file_changes_the_key(tmp_path):
     (tmp_path / "half.v").write_text("module half(input a, output y); assign y = ~a; endmodule\n")
     k2, _ = gate.entry_key(e, {}, tmp_path)
     assert k1 != k2 and gate.entry_key(e, {"W": 1}, tmp_path)[0] not in (k1, k2)
+
+
+def test_a_record_from_another_build_of_the_tool_never_matches(tmp_path, monkeypatch):
+    # A record stored by a different build (older release, patched checkout) must be ignored,
+    # even when the version string is the same: the build id hashes the package's sources.
+    from verify import cache as cachemod
+    build = cachemod.tool_build()
+    assert "+" in build and "z3-solver=" in build and "pyslang=" in build
+    files = {"x.json": "0" * 64}
+    key_now = cachemod.make_key(files, {}, "s", {})
+    monkeypatch.setattr(cachemod, "tool_build", lambda: "0.1.0+someotherbuild (z3-solver=1)")
+    assert cachemod.make_key(files, {}, "s", {}) != key_now

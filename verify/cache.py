@@ -7,7 +7,7 @@ A cache key is the sha256 of one canonical JSON text holding:
   including file's folder and the include folders, plus every file under the include folders),
 * the parameter values, the spec text, the options that decide the outcome (engine, require,
   timeout, seed, vectors, exhaustive limit, top, include folders, defines),
-* the tool version.
+* the tool build: its version, a hash of its own source files, and the versions of z3, pyslang and numpy (a record made by any other build never matches).
 
 Each stored record also lists the files and their hashes; a lookup re-hashes them and ignores a
 record whose files changed (so a stale record is never reported even if two keys collided).
@@ -20,6 +20,7 @@ manifest; deleting the folder is always safe.
 
 from __future__ import annotations
 
+import functools
 import hashlib
 import json
 import os
@@ -102,10 +103,31 @@ def file_hashes(paths: Iterable[Path], root: str | Path | None = None) -> dict[s
     return dict(sorted(out.items()))
 
 
+@functools.lru_cache(maxsize=1)
+def tool_build() -> str:
+    """The tool as it runs now: its version, a hash of every source file of the package, and the
+    versions of the libraries a verdict rests on (z3, pyslang, numpy). A record made by any other
+    build, an older release or a locally patched checkout, never matches."""
+    from importlib import metadata
+
+    package = Path(__file__).resolve().parent
+    digest = hashlib.sha256()
+    for src in sorted(package.rglob("*.py")):
+        digest.update(src.relative_to(package).as_posix().encode() + b"\0")
+        digest.update(src.read_bytes() + b"\0")
+    libs = []
+    for dist in ("z3-solver", "pyslang", "numpy"):
+        try:
+            libs.append(f"{dist}={metadata.version(dist)}")
+        except metadata.PackageNotFoundError:  # pragma: no cover - all are dependencies
+            libs.append(f"{dist}=none")
+    return f"{__version__}+{digest.hexdigest()[:16]} ({', '.join(libs)})"
+
+
 def make_key(files: Mapping[str, str], params: Mapping[str, int], spec: str,
-             options: Mapping[str, Any], version: str = __version__) -> str:
+             options: Mapping[str, Any], version: str | None = None) -> str:
     """The cache key: sha256 over everything the verdict rests on (see the module text)."""
-    canon = {"format": RECORD_FORMAT, "tool_version": version, "files": dict(sorted(files.items())),
+    canon = {"format": RECORD_FORMAT, "tool_version": version or tool_build(), "files": dict(sorted(files.items())),
              "params": dict(sorted(params.items())), "spec": spec,
              "options": dict(sorted(options.items()))}
     text = json.dumps(canon, sort_keys=True, separators=(",", ":"), default=str)
@@ -134,7 +156,7 @@ class Cache:
             self.misses += 1
             return None
         if (not isinstance(record, dict) or record.get("format") != RECORD_FORMAT
-                or record.get("key") != key or record.get("tool_version") != __version__
+                or record.get("key") != key or record.get("tool_version") != tool_build()
                 or not self._files_unchanged(record.get("files", {}), root)):
             self.misses += 1
             return None
@@ -157,7 +179,7 @@ class Cache:
         """Store ``result`` (a record's payload) when its verdict is definite; True if stored."""
         if result.get("verdict") not in CACHEABLE:
             return False
-        record = {"format": RECORD_FORMAT, "key": key, "tool_version": __version__,
+        record = {"format": RECORD_FORMAT, "key": key, "tool_version": tool_build(),
                   "files": dict(files), "result": dict(result)}
         self.folder.mkdir(parents=True, exist_ok=True)
         gitignore = self.folder / ".gitignore"
