@@ -84,6 +84,11 @@ def test_a_folder_checks_every_design_and_summarises(files, capsys):
     (["--shard", "3/2", "--engine", "exhaustive"], "shard"),
     (["--vectors", "0", "--engine", "random"], "--vectors"),
     (["--param", "W"], "--param"),
+    (["--param", "W=8", "--param", "W=16"], "given twice"),
+    (["--seed", "-1"], "--seed"),
+    (["--timeout", "inf"], "--timeout"),
+    (["--timeout", "nan"], "--timeout"),
+    (["--engine", "exhaustive", "--shard", "1/1000000"], "only 2^17"),
 ])
 def test_bad_usage_is_one_line_and_exit_2(files, capsys, argv_tail, message):
     _, good, _ = files
@@ -138,3 +143,25 @@ def test_export_round_trips_through_verilog_and_json(files, capsys):
     first, back = Simulator(load(bad)), Simulator(load(j))
     vectors = [{"a": a, "b": b, "cin": c} for a, b, c in itertools.product(range(256), range(0, 256, 7), (0, 1))]
     assert first.evaluate_many(vectors) == back.evaluate_many(vectors)
+
+
+def test_no_arguments_prints_the_help(capsys):
+    code, out, err = run([], capsys)
+    assert code == 0 and "Commands:" in out and "check" in out and not err
+
+
+def test_several_json_netlists_are_several_designs(files, capsys):
+    tmp, good, bad = files
+    code, out, _ = run(["check", str(good), str(bad), "--no-log", "--no-diagnose"], capsys)
+    assert code == 1 and "1 exhaustive" in out and "1 fail" in out
+
+
+def test_the_api_refuses_bad_options_as_input_errors():
+    import verify
+    from verify.errors import InputError
+    d = ripple(4)
+    for kwargs in ({"seed": -1}, {"timeout": float("inf")}, {"timeout": float("nan")},
+                   {"vectors": 0}, {"exhaustive_limit": 99}, {"spec": 123}):
+        spec = kwargs.pop("spec", None)
+        with pytest.raises(InputError):
+            verify.check(d, spec, **kwargs)

@@ -14,6 +14,7 @@ no answer, the verdict is inconclusive: passing random vectors never stands in f
 
 from __future__ import annotations
 
+import math
 import time
 from pathlib import Path
 from typing import Callable
@@ -26,6 +27,8 @@ from verify.result import CheckResult, EngineOutcome, Require, Verdict, combine
 ENGINE_NAMES = ("auto", "exhaustive", "smt", "random")
 #: how many random vectors auto runs before the complete engine
 AUTO_RANDOM_VECTORS = 20_000
+#: the longest time limit accepted (a week): past it a limit means nothing
+MAX_TIMEOUT = 7 * 24 * 3600
 
 
 def _engine(name: str):
@@ -42,7 +45,31 @@ def resolve_spec(design: Netlist, spec=None):
         if not spec.strip():
             raise InputError("the spec is empty", "spec")
         return specmod.parse(spec, design)
+    if not isinstance(spec, specmod.Spec):
+        raise InputError(f"a spec is equation text or a verify.spec.Spec, not {type(spec).__name__}",
+                         "spec")
     return spec
+
+
+def _whole(value) -> bool:
+    return isinstance(value, int) and not isinstance(value, bool)
+
+
+def _check_options(seed, vectors, timeout, exhaustive_limit) -> None:
+    """Refuse option values no engine can honour, as InputError (exit 2), before any work."""
+    if not _whole(seed) or seed < 0:
+        raise InputError(f"--seed must be a whole number >= 0, got {seed!r}")
+    if vectors is not None and (not _whole(vectors) or vectors < 1):
+        raise InputError(f"--vectors must be a whole number >= 1, got {vectors!r}")
+    if isinstance(timeout, bool) or not isinstance(timeout, (int, float)) or not math.isfinite(timeout) \
+            or timeout <= 0:
+        raise InputError(f"--timeout must be a positive number of seconds, got {timeout!r}")
+    if timeout > MAX_TIMEOUT:
+        raise InputError(f"--timeout {timeout:g} is more than {MAX_TIMEOUT:,} s (a week); "
+                         "give a real limit")
+    if not _whole(exhaustive_limit) or not 1 <= exhaustive_limit <= 40:
+        raise InputError(f"--exhaustive-limit must be a whole number from 1 to 40, got "
+                         f"{exhaustive_limit!r}")
 
 
 def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed: int = 1,
@@ -71,10 +98,11 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
             raise InputError("--shard works with --engine exhaustive only")
         if not (isinstance(k, int) and isinstance(n, int) and 1 <= k <= n):
             raise InputError(f"shard {k}/{n}: give K/N with 1 <= K <= N")
-    if vectors is not None and vectors < 1:
-        raise InputError(f"--vectors must be at least 1, got {vectors}")
-    if timeout <= 0:
-        raise InputError(f"--timeout must be positive, got {timeout:g}")
+    _check_options(seed, vectors, timeout, exhaustive_limit)
+    if shard is not None and shard[1] > 1 << design.input_width:
+        raise InputError(f"shard {shard[0]}/{shard[1]}: the input space of {design.name} has only "
+                         f"2^{design.input_width} = {1 << design.input_width:,} vectors; give at "
+                         f"most that many shards")
     the_spec = resolve_spec(design, spec)
 
     def options(name: str, **over) -> Options:

@@ -30,6 +30,9 @@ def cli() -> None:
 
 def main(argv: list[str] | None = None) -> None:
     """Console entry point: every bad input becomes one line on stderr and exit code 2."""
+    if not (sys.argv[1:] if argv is None else argv):
+        click.echo(cli.get_help(click.Context(cli, info_name="verify")))
+        sys.exit(0)
     try:
         code = cli.main(args=argv, prog_name="verify", standalone_mode=False)
     except click.exceptions.Exit as e:
@@ -65,6 +68,9 @@ def parse_params(values: tuple[str, ...]) -> dict[str, list[int]]:
                 vals.append(int(v.strip(), 0))
             except ValueError:
                 raise InputError(f"--param {name}: '{v}' is not a whole number") from None
+        if name.strip() in out:
+            raise InputError(f"--param {name.strip()} is given twice; for a sweep write "
+                             f"{name.strip()}=V1,V2,...")
         out[name.strip()] = vals
     return out
 
@@ -100,6 +106,8 @@ def sweep(params: dict[str, list[int]]) -> list[dict[str, int]]:
 def design_units(paths: tuple[str, ...]) -> list[list[Path]]:
     """What to check: one design from the files given, or one design per file in a folder."""
     given = [Path(p) for p in paths]
+    if len(given) > 1 and all(p.suffix == ".json" for p in given):
+        return [[p] for p in given]  # each JSON netlist is a design of its own
     if len(given) == 1 and given[0].is_dir():
         files = sorted(p for p in given[0].rglob("*")
                        if p.is_file() and p.suffix in (".json", *VERILOG_SUFFIXES)
@@ -119,7 +127,7 @@ def verilog_options(f):
     for option in reversed([
         click.option("--top", help="Verilog: the top module (found automatically if there is one)."),
         click.option("--param", "params", multiple=True, metavar="NAME=V[,V...]",
-                     help="Verilog: override a parameter; several values check each in turn."),
+                     help="Verilog: override a parameter (check: several values check each in turn)."),
         click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder."),
         click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define."),
     ]):
@@ -135,19 +143,21 @@ def verilog_options(f):
               "Default: inferred from port names and widths.")
 @click.option("--engine", type=click.Choice(ENGINES), default="auto", show_default=True,
               help="auto: random vectors first, then exhaustive if the inputs fit, else smt.")
-@click.option("--seed", type=int, default=1, show_default=True, help="Seed of the random engine.")
-@click.option("--vectors", type=int, help="Vectors for the random engine (default 200,000; "
-              "auto runs 20,000 first).")
+@click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
+              help="Seed of the random engine.")
+@click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
+              "(default 200,000; auto runs 20,000 first).")
 @click.option("--timeout", type=float, default=DEFAULT_TIMEOUT, show_default=True,
               help="Seconds an engine may take; past it the outcome is inconclusive.")
 @click.option("--require", type=click.Choice(["tested", "complete"]), default="tested",
               show_default=True, help="complete: only proven or exhaustive count as meeting the spec.")
 @click.option("--exhaustive-limit", type=click.IntRange(1, 40), default=DEFAULT_EXHAUSTIVE_BITS,
-              show_default=True, metavar="BITS", help="Largest input width the exhaustive engine takes.")
+              show_default=True, metavar="BITS",
+              help="Most input bits (all input ports together) the exhaustive engine takes.")
 @click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
 @verilog_options
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
-@click.option("--log-dir", default="logs", show_default=True,
+@click.option("--log-dir", default="logs", show_default=True, metavar="DIR",
               help="Where runs.jsonl is appended and a failure's waveform is written.")
 @click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl (nor write a waveform there).")
 @click.option("--vcd", "vcd_path", metavar="FILE", help="On a failure, write the waveform here "

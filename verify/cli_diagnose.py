@@ -36,7 +36,8 @@ def register(cli: click.Group) -> click.Group:
               "output as Graphviz DOT (and SVG beside it when 'dot' is installed).")
 @click.option("--vectors", type=click.IntRange(64, 1 << 16), default=2048, show_default=True,
               help="Vectors simulated to rank the suspects.")
-@click.option("--seed", type=int, default=1, show_default=True)
+@click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
+              help="Seed of the vectors that rank the suspects (and of the check without --input).")
 @click.option("--top", "top_module", help="Verilog: the top module.")
 @click.option("--param", "params", multiple=True, metavar="NAME=V",
               help="Verilog: override a parameter.")

@@ -148,7 +148,8 @@ class CheckResult:
                     f"shards gives the exhaustive verdict")
         if v is Verdict.TESTED:
             n = sum(e.vectors or 0 for e in self.engines if e.status == "pass")
-            return (f"tested {n:,} input vectors, all matched; this is a sample of the 2^{bits} "
+            return (f"tested {n:,} input vector{'s' if n != 1 else ''}, all matched; this is a "
+                    f"sample of the 2^{bits} "
                     f"inputs, not a proof")
         if v is Verdict.FAIL:
             return "counterexample found: the design does not meet the spec"

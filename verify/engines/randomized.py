@@ -58,7 +58,8 @@ def run(design, spec, options: Options) -> EngineOutcome:
     if done < budget:
         return stopped("random", seconds, options, done, budget, details)
     return EngineOutcome("random", "pass", seconds,
-                         f"tested {done:,} vectors (seed {options.seed}): all outputs match; a "
+                         f"tested {done:,} vector{'s' if done != 1 else ''} (seed {options.seed}): "
+                         f"all outputs match; a "
                          f"sample, not a proof", vectors=done, details=details)
 
 

@@ -50,6 +50,8 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
 
     if not isinstance(data, dict):
         raise bad(f"expected a JSON object at the top level, got {type(data).__name__}")
+    if "format" not in data:
+        raise bad(f"missing key 'format' (a netlist starts with \"format\": \"{FORMAT}\")")
     if data.get("format") != FORMAT:
         raise bad(f"'format' must be \"{FORMAT}\", got {data.get('format')!r}")
     unknown = set(data) - _TOP_KEYS
