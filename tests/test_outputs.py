@@ -56,3 +56,24 @@ def test_generate_refuses_to_overwrite_without_force(tmp_path, capsys):
     with pytest.raises(SystemExit) as e:
         main(["generate", "kogge-stone", "--width", "8", "-o", str(out), "--force"])
     assert e.value.code == 0 and '"verify-netlist/1"' in out.read_text()
+
+
+def test_check_refuses_a_hand_written_waveform_path_before_checking(tmp_path, capsys):
+    from tests.helpers import rewire, ripple
+    from verify.formats import json_netlist
+    bad = tmp_path / "bad.json"
+    bad.write_text(json_netlist.dumps(rewire(ripple(4), "sum[2]", op="or")))
+    mine = tmp_path / "hand.vcd"
+    mine.write_text("$comment my own waveform $end\n")
+    with pytest.raises(SystemExit) as e:
+        main(["check", str(bad), "--no-log", "--vcd", str(mine)])
+    out = capsys.readouterr()
+    assert e.value.code == 2 and "refusing to overwrite" in out.err
+    assert "FAIL" not in out.out  # nothing was checked
+    assert mine.read_text() == "$comment my own waveform $end\n"
+    with pytest.raises(SystemExit) as e:
+        main(["check", str(bad), "--no-log", "--vcd", str(tmp_path / "w.vcd")])
+    assert e.value.code == 1
+    with pytest.raises(SystemExit) as e:  # an earlier waveform of ours may be replaced
+        main(["check", str(bad), "--no-log", "--vcd", str(tmp_path / "w.vcd")])
+    assert e.value.code == 1

@@ -98,6 +98,17 @@ def parse_shard(text: str | None) -> tuple[int, int] | None:
     return shard
 
 
+def check_report_paths(vcd_path: str | None, dot_path: str | None) -> None:
+    """Refuse a waveform or picture path that may not be written, before any work is done."""
+    from verify.outputs import can_write
+    if vcd_path:
+        can_write(vcd_path, what="waveform", replace_reports=True, kind="vcd")
+    if dot_path:
+        can_write(dot_path, what="cone picture", replace_reports=True, kind="dot")
+        can_write(Path(dot_path).with_suffix(".svg"), what="cone picture", replace_reports=True,
+                  kind="svg")
+
+
 def sweep(params: dict[str, list[int]]) -> list[dict[str, int]]:
     names = list(params)
     return [dict(zip(names, combo)) for combo in itertools.product(*(params[n] for n in names))] or [{}]
@@ -180,6 +191,7 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
         units = design_units(paths)
         if (vcd_path or dot_path) and (len(units) > 1 or len(sweep(sweep_params)) > 1):
             raise InputError("--vcd and --dot take one design at one parameter value")
+        check_report_paths(vcd_path, dot_path)
     except InputError as e:
         return _input_error(e, as_json)
     runs = []  # (label, params, result or error, diagnosis lines)

@@ -62,10 +62,11 @@ def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, to
              include_dirs, defines, as_json) -> int:
     from verify import diagnose
     from verify.check import check, resolve_spec
-    from verify.cli import parse_defines, parse_params
+    from verify.cli import check_report_paths, parse_defines, parse_params
     from verify.formats import load
     from verify.reports import render_text as check_text
 
+    check_report_paths(vcd_path, dot_path)
     point = {}
     for name, values in parse_params(params).items():
         if len(values) != 1:
