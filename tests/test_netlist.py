@@ -95,6 +95,9 @@ def test_json_refs_accept_bit_zero_of_a_one_bit_port():
      "unknown key gate"),
     ('{"format": "verify-netlist/1", "inputs": {"a": 1, "a": 2}, "outputs": {}, "gates": []}',
      "key 'a' appears twice"),
+    ('{"format": "verify-netlist/1", "inputs": {"a": 100000000}, "outputs": {}, "gates": []}',
+     "over the widest port supported"),
+    ('{"inputs": {}, "outputs": {}, "gates": []}', "missing key 'format'"),
 ])
 def test_bad_json_gives_one_located_line(text, message):
     with pytest.raises(InputError) as e:

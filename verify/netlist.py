@@ -55,6 +55,9 @@ OPS: dict[str, tuple[int, int | None]] = {
     "const1": (0, 0),
 }
 
+#: the widest port accepted: far past any adder, and small enough that a typo is not a hang
+MAX_PORT_WIDTH = 1 << 16
+
 CONST0 = "0"
 CONST1 = "1"
 CONSTANTS = (CONST0, CONST1)
@@ -204,6 +207,9 @@ class Netlist:
                     yield f"port name '{p.name}' is reserved for a constant"
                 if not isinstance(p.width, int) or p.width < 1:
                     yield f"{kind} port '{p.name}' has width {p.width!r}; a width is a whole number >= 1"
+                elif p.width > MAX_PORT_WIDTH:
+                    yield (f"{kind} port '{p.name}' is {p.width:,} bits wide; the widest port "
+                           f"supported is {MAX_PORT_WIDTH:,} bits")
                 seen_ports.add(p.name)
         if not self.inputs:
             yield "the design has no input ports"

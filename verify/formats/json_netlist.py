@@ -17,7 +17,7 @@ import json
 from typing import Any
 
 from verify.errors import InputError
-from verify.netlist import Gate, Netlist, Port, canonical_ref
+from verify.netlist import MAX_PORT_WIDTH, Gate, Netlist, Port, canonical_ref
 
 FORMAT = "verify-netlist/1"
 _TOP_KEYS = {"format", "name", "inputs", "outputs", "gates", "comment"}
@@ -74,6 +74,9 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
         for pname, width in spec.items():
             if isinstance(width, bool) or not isinstance(width, int) or width < 1:
                 raise bad(f"{key}.{pname}: width must be a whole number >= 1, got {width!r}")
+            if width > MAX_PORT_WIDTH:
+                raise bad(f"{key}.{pname}: width {width:,} is over the widest port supported "
+                          f"({MAX_PORT_WIDTH:,} bits)")
             if pname in ports:
                 raise bad(f"port '{pname}' is declared as both an input and an output")
             ports[pname] = width
