@@ -364,3 +364,62 @@ def test_the_terminal_progress_bar_starts_no_thread(lib, capsys):
     err = capsys.readouterr().err
     assert "larkspur_add4: exhaustive" in err and "larkspur_bad5: fail" in err
     assert summary.exit_code == 1
+
+
+# ---- entries whose manifest values are wrong ------------------------------------------------
+
+_ACC = ("module larkspur_acc #(parameter W = 4) (input [W-1:0] a, b, input cin,\n"
+        "  output [W-1:0] sum, output cout);\n"
+        "  assign {cout, sum} = a + b + cin;\n"
+        "endmodule\n")
+
+
+def test_entry_errors_name_the_manifest_line_the_entry_and_the_key(tmp_path, capsys):
+    (tmp_path / "rtl").mkdir()
+    (tmp_path / "rtl" / "larkspur_acc.sv").write_text(_ACC)
+    f = "rtl/larkspur_acc.sv"
+    text = (entry("good", f, params="{ W = 4 }") +           # lines 1-5
+            entry("sk", f, params="{ X = [8, 16] }") +       # lines 7-11, params on 11
+            entry("sub", f, defines='{ "A B" = "1" }') +     # lines 13-17, defines on 17
+            "[[design]]\nname = \"badspec\"\n" f'files = ["{f}"]\n' 'spec = "sum = a + q"\n\n'
+            + entry("badtop", f, top="nosuch"))               # lines 24-28, top on 28
+    m = manifest(tmp_path, text)
+    code, out, err = run_cli(capsys, "run", str(m), "--no-cache", "-q")
+    assert code == 2
+    where = str(m)
+    want = [
+        f"{where}:11: design 'sk': key 'params': module 'larkspur_acc' has no parameter 'X' "
+        "(parameters: W)",
+        f"{where}:17: design 'sub': key 'defines': 'A B' is not a macro name",
+        f"{where}:22: design 'badspec': key 'spec': column 11: 'q' is not a port",
+        f"{where}:28: design 'badtop': key 'top': no module named 'nosuch' (modules: larkspur_acc)",
+    ]
+    err_lines = err.splitlines()
+    assert len(err_lines) == len(want), err  # one line each; X=8 and X=16 are one mistake
+    for line, w in zip(err_lines, want):
+        assert line.startswith(f"error: {w}"), (line, w)
+    problems = out.split("\n\n")[1].splitlines()  # the table's problem lines
+    assert [p.split(": ", 1)[0] for p in problems] == ["sk X=8", "sk X=16", "sub", "badspec", "badtop"]
+    for p in problems:
+        assert p.split(": ", 1)[1].startswith(where + ":"), p
+    for word in ("--param", "-D", "--top", "--spec"):  # options the manifest does not have
+        assert word not in out + err, word
+    assert "exhaustive" in out.lower() and "good" in out  # the other entries are still checked
+
+
+def test_a_manifest_fault_in_a_twin_entry_names_that_entry(tmp_path):
+    (tmp_path / "a.sv").write_text(_ACC)
+    m = manifest(tmp_path, entry("one", "a.sv", params="{ Q = 3 }") +
+                 entry("two", "a.sv", params="{ Q = 3 }"))
+    summary = gate.run(m, use_cache=False)
+    assert [r["error"].split(": ")[:3] for r in summary.records] == [
+        [f"{m}:5", "design 'one'", "key 'params'"], [f"{m}:11", "design 'two'", "key 'params'"]]
+
+
+def test_a_design_file_error_keeps_its_own_location(tmp_path, capsys):
+    (tmp_path / "bad.sv").write_text("module larkspur_bad(input a, output y);\n  assign y = a +;\n"
+                                     "endmodule\n")
+    m = manifest(tmp_path, entry("bad", "bad.sv"))
+    code, out, err = run_cli(capsys, "run", str(m), "--no-cache", "-q")
+    assert code == 2
+    assert err.startswith("error: bad: ") and "bad.sv:2:" in err and err.count("\n") == 1

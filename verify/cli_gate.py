@@ -82,6 +82,18 @@ def _write(path: str, text: str, what: str) -> None:
     write_text(path, text, what=what, replace_reports=True)
 
 
+def _report_entry_errors(summary) -> None:
+    """One line on stderr per entry that could not be checked (the table lists them too)."""
+    shown = set()
+    for r in summary.records:
+        if r.get("verdict") != "error":
+            continue
+        line = r["error"] if r.get("error_key") else f"{r['label']}: {r['error']}"
+        if line not in shown:  # an unknown parameter is the same mistake at every point
+            shown.add(line)
+            click.echo(f"error: {line}", err=True)
+
+
 @click.command("run")
 @click.argument("manifest", required=False, metavar="[MANIFEST]")
 @click.option("--jobs", "-j", type=click.IntRange(1, 512), default=1, show_default=True,
@@ -123,6 +135,7 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
         with show:
             summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
                                progress=show, only=only or None)
+    _report_entry_errors(summary)
     if junit_path:
         _write(junit_path, rb.render_junit(summary), "JUnit report")
     if md_path:

@@ -78,6 +78,12 @@ class Entry:
     exhaustive_limit: int | None = None
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
+    #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
+    key_where: tuple[tuple[str, str], ...] = ()
+
+    def where_key(self, key: str) -> str:
+        """The manifest line of ``key`` in this entry (the entry's first line if not written)."""
+        return dict(self.key_where).get(key) or self.where
 
     def points(self) -> list[dict[str, int]]:
         """Every parameter combination, in manifest order ([{}] when there are no parameters)."""
@@ -277,13 +283,19 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         raise bad("timeout", f"must be a positive number of seconds, got {timeout!r}")
 
     seed = whole("seed", 0)
+    key_where = []
+    for key in table:
+        n = _key_line(lines, start, end, key) if start else None
+        if n:
+            key_where.append((key, f"{path}:{n}"))
     return Entry(
         name=name, files=tuple(files), spec=spec, top=top, params=tuple(params),
         require=choice("require", REQUIRES, "complete"), engine=choice("engine", ENGINES, "auto"),
         timeout=float(timeout), expect=choice("expect", EXPECTS, "pass"),
         include_dirs=tuple(include_dirs), defines=tuple(defines),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
-        exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where)
+        exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
+        key_where=tuple(key_where))
 
 
 def _similar(a: str, b: str) -> bool:
@@ -358,9 +370,12 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
                        vectors=entry.vectors, timeout=entry.timeout, require=entry.require,
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
     except InputError as e:
-        return {**base, "verdict": "error", "error": str(e), "engines": [], "coverage":
-                "nothing was checked", "counterexample": None, "design_hash": None,
-                "checked_seconds": time.perf_counter() - started}
+        fault = manifest_fault(e)
+        return {**base, "verdict": "error",
+                "error": str(e) if fault is None else entry_error(entry, *fault),
+                "error_key": fault and fault[0], "error_detail": fault and fault[1],
+                "engines": [], "coverage": "nothing was checked", "counterexample": None,
+                "design_hash": None, "checked_seconds": time.perf_counter() - started}
     data = result.to_json()
     return {**base, "verdict": result.verdict.value, "error": None,
             "engines": [{"engine": e["engine"], "status": e["status"], "seconds": e["seconds"],
@@ -369,6 +384,34 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
             "coverage": result.coverage, "counterexample": data.get("counterexample"),
             "design_hash": result.design_hash, "design": data["design"],
             "checked_seconds": result.seconds}
+
+
+#: reader and check options whose values an entry gives under a key of its own
+_OPTION_KEYS = {"--top": "top", "--param": "params", "-D": "defines", "-I": "include_dirs",
+                "--seed": "seed", "--vectors": "vectors", "--timeout": "timeout",
+                "--exhaustive-limit": "exhaustive_limit"}
+
+
+def manifest_fault(e: InputError) -> tuple[str, str] | None:
+    """(manifest key, what is wrong) when a check failed on a value the entry's manifest gave
+    (its spec, a parameter name, a define, the top module...) rather than in a design file."""
+    from verify.errors import SpecError
+    option = getattr(e, "option", None)  # set by the Verilog reader (verify.formats.verilog)
+    if option in _OPTION_KEYS:
+        return _OPTION_KEYS[option], getattr(e, "detail", None) or e.message
+    if isinstance(e, SpecError) or e.where == "spec":
+        return "spec", e.message
+    if e.where is None:  # verify.check's option checks: "--timeout 1e+09 is more than ..."
+        m = re.match(r"(--[a-z-]+)\b:?\s*(.+)", e.message, re.S)
+        if m and m.group(1) in _OPTION_KEYS:
+            return _OPTION_KEYS[m.group(1)], m.group(2)
+    return None
+
+
+def entry_error(entry: Entry, key: str, detail: str) -> str:
+    """'verify.toml:14: design 'sub': key 'defines': ...': a value of the manifest is at fault,
+    said as the manifest's own errors are (file and line, the entry, the key)."""
+    return str(InputError(f"design '{entry.name}': key '{key}': {detail}", entry.where_key(key)))
 
 
 _SEEN_DEPS: dict[tuple[str, ...], dict[str, str]] = {}
@@ -500,6 +543,8 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
                     require=e.require, engine=e.engine, files=list(e.files), spec=e.spec)
         if same_as is not None:
             base["same_as"] = same_as
+        if base.get("error_key"):  # an entry's own manifest line, not its twin's
+            base["error"] = entry_error(e, base["error_key"], base["error_detail"])
         records[i] = _finish(base, cached=True, seconds=time.perf_counter() - t0, key=key,
                              files=files)
         done += 1

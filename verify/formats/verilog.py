@@ -48,9 +48,23 @@ def _define_strings(defines: Mapping[str, str | None]) -> list[str]:
     for name, value in defines.items():
         if not name or not (name[0].isalpha() or name[0] == "_") or \
                 not all(c.isalnum() or c in "_$" for c in name):
-            raise InputError(f"-D {name!r}: a macro name is a Verilog identifier", "-D")
+            what = "a Verilog identifier: a letter or _, then letters, digits, _ or $"
+            raise option_error(f"-D {name!r}: not a macro name ({what})", None, option="-D",
+                               detail=f"{name!r} is not a macro name ({what})")
         out.append(name if value is None else f"{name}={value}")
     return out
+
+
+def option_error(message: str, where: str | None, *, option: str, detail: str) -> InputError:
+    """An error in the value of a reader option (``--top``, ``--param``, ``-D``, ``-I``).
+
+    ``message`` speaks in command-line terms; the error also carries ``option`` and ``detail``
+    (what is wrong, naming no option and no design file location) so that a caller that took the
+    value from elsewhere, a manifest key, can say it in its own terms.
+    """
+    err = InputError(message, where)
+    err.option, err.detail = option, detail  # type: ignore[attr-defined]
+    return err
 
 
 def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
@@ -58,7 +72,8 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
     """(source manager, syntax trees), cached while the files and options are unchanged."""
     for d in include_dirs:
         if not Path(d).is_dir():
-            raise InputError("include folder does not exist", f"-I {d}")
+            raise option_error("include folder does not exist", f"-I {d}", option="-I",
+                               detail=f"include folder '{d}' does not exist")
     key = (_file_key(paths), tuple(str(Path(d).resolve()) for d in include_dirs),
            tuple(sorted((k, v) for k, v in defines.items())))
     hit = _TREE_CACHE.get(key)
@@ -177,7 +192,9 @@ def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int]):
     overrides = []
     for name, value in params.items():
         if isinstance(value, bool) or not isinstance(value, int):
-            raise InputError(f"--param {name}: value must be a whole number, got {value!r}", "--param")
+            raise option_error(f"--param {name}: value must be a whole number, got {value!r}",
+                               None, option="--param",
+                               detail=f"'{name}': value must be a whole number, got {value!r}")
         overrides.append(f"{name}={value}")
     opts.paramOverrides = overrides
     comp = ast.Compilation(pyslang.Bag([opts]))
@@ -198,28 +215,31 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
     locator = Locator(sm, paths)
     comp = _elaborate(pyslang, trees, top, params)
     root = comp.getRoot()
+    first = str(paths[0])
+    if top and top not in {d.name for d in _definitions(comp) if _is_module(d)}:
+        raise _no_such_top(comp, top, first)  # before slang's own, less helpful, error about it
     _diagnostics(pyslang, comp, sm, locator)
     tops = list(root.topInstances)
-    first = str(paths[0])
     if top:
         tops = [t for t in tops if t.name == top]
         if not tops:
-            defs = sorted({d.name for d in _definitions(comp)})
-            raise InputError(f"no module named '{top}' (modules: {', '.join(defs) or 'none'})", first)
+            raise _no_such_top(comp, top, first)
     if not tops:
         modules = sorted({d.name for d in _definitions(comp) if _is_module(d)})
         if modules:
             # slang takes as top only a module nobody instantiates; a module that instantiates
             # itself (a recursive adder under a generate-if) or a set of cells that all use one
             # another leaves none
-            raise InputError("every module is instantiated by another (recursive, or a library "
-                             "of cells); name the top with --top "
-                             f"(modules: {', '.join(modules)})", first)
+            why = "every module is instantiated by another (recursive, or a library of cells)"
+            listed = f"(modules: {', '.join(modules)})"
+            raise option_error(f"{why}; name the top with --top {listed}", first, option="--top",
+                               detail=f"{why}; name the top module {listed}")
         raise InputError("no module found in the given files", first)
     if len(tops) > 1:
         names = ", ".join(sorted(t.name for t in tops))
-        raise InputError(f"several candidate top modules ({names}); choose one with --top NAME",
-                         first)
+        raise option_error(f"several candidate top modules ({names}); choose one with --top NAME",
+                           first, option="--top",
+                           detail=f"several candidate top modules ({names}); name the top module")
     inst = tops[0]
     _check_params(inst, params, locator)
     translator = Translator(locator, origin=", ".join(str(p) for p in paths))
@@ -267,6 +287,12 @@ def _definitions(comp):
         return []
 
 
+def _no_such_top(comp, top: str, where: str) -> InputError:
+    defs = sorted({d.name for d in _definitions(comp) if _is_module(d)})
+    text = f"no module named '{top}' (modules: {', '.join(defs) or 'none'})"
+    return option_error(text, where, option="--top", detail=text)
+
+
 def _is_module(definition) -> bool:
     from pyslang import ast
     return getattr(definition, "definitionKind", None) == ast.DefinitionKind.Module
@@ -283,8 +309,10 @@ def _check_params(inst, params: Mapping[str, int], locator: Locator) -> None:
         sym = known.get(name)
         if sym is None:
             listed = ", ".join(n for n, s in known.items() if not s.isLocalParam) or "none"
-            raise InputError(f"--param {name}: module '{inst.name}' has no parameter '{name}' "
-                             f"(parameters: {listed})", locator.where(inst.location))
+            text = f"module '{inst.name}' has no parameter '{name}' (parameters: {listed})"
+            raise option_error(f"--param {name}: {text}", locator.where(inst.location),
+                               option="--param", detail=text)
         if sym.isLocalParam:
-            raise InputError(f"--param {name}: '{name}' is a localparam of '{inst.name}' and "
-                             f"cannot be overridden", locator.where(sym.location))
+            text = f"'{name}' is a localparam of '{inst.name}' and cannot be overridden"
+            raise option_error(f"--param {name}: {text}", locator.where(sym.location),
+                               option="--param", detail=text)
