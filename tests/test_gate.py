@@ -423,3 +423,44 @@ def test_a_design_file_error_keeps_its_own_location(tmp_path, capsys):
     code, out, err = run_cli(capsys, "run", str(m), "--no-cache", "-q")
     assert code == 2
     assert err.startswith("error: bad: ") and "bad.sv:2:" in err and err.count("\n") == 1
+
+
+# ---- report paths are checked before anything runs -------------------------------------------
+
+@pytest.mark.parametrize("option", ["--junit", "--json", "--markdown"])
+def test_a_report_path_that_cannot_be_written_stops_the_run_before_any_check(lib, capsys,
+                                                                             monkeypatch, option):
+    m = manifest(lib, entry("larkspur_add4", "rtl/larkspur_add4.json"))
+    hand = lib / "hand.txt"
+    hand.write_text("notes the Larkspur team wrote by hand\n")
+    checked = []
+    monkeypatch.setattr(gate, "check_entry", lambda *a, **k: checked.append(a) or {})
+    code, out, err = run_cli(capsys, "run", str(m), "--no-cache", "-q", option, str(hand))
+    assert code == 2 and checked == []
+    assert err.startswith(f"error: {hand}: refusing to overwrite") and err.count("\n") == 1
+    assert hand.read_text() == "notes the Larkspur team wrote by hand\n"
+    assert out == ""
+
+
+def test_report_paths_are_checked_before_the_run(lib, capsys, monkeypatch):
+    m = manifest(lib, entry("larkspur_add4", "rtl/larkspur_add4.json"))
+    checked = []
+    monkeypatch.setattr(gate, "check_entry", lambda *a, **k: checked.append(a) or {})
+    code, _, err = run_cli(capsys, "run", str(m), "-q", "--junit", str(lib / "r.xml"),
+                           "--markdown", str(lib / "." / "r.xml"))
+    assert code == 2 and checked == [] and "--junit and --markdown name the same file" in err
+    (lib / "md.md").write_text("<!-- adder-verify report (markdown) -->\n### ok\n")  # another kind
+    code, _, err = run_cli(capsys, "run", str(m), "-q", "--junit", str(lib / "md.md"))
+    assert code == 2 and checked == [] and "not an earlier report of this kind" in err
+    code, _, err = run_cli(capsys, "run", str(m), "-q", "--json", str(lib))
+    assert code == 2 and checked == [] and "is a folder" in err
+
+
+def test_an_earlier_report_is_still_replaced(lib, capsys):
+    m = manifest(lib, entry("larkspur_add4", "rtl/larkspur_add4.json"))
+    j = lib / "j.xml"
+    for _ in range(2):
+        code, _, err = run_cli(capsys, "run", str(m), "-q", "--junit", str(j), "--json",
+                               str(lib / "s.json"), "--markdown", str(lib / "s.md"))
+        assert code == 0, err
+    assert ET.parse(j).getroot().get("tests") == "1"

@@ -82,6 +82,22 @@ def _write(path: str, text: str, what: str) -> None:
     write_text(path, text, what=what, replace_reports=True)
 
 
+def _check_report_paths(reports) -> None:
+    """Refuse, before anything is checked, a report path that could not be written at the end (a
+    hand-written file, another kind of report, a folder) or that two reports share."""
+    from verify.outputs import can_write
+    seen: dict[str, str] = {}
+    for path, what, option, kind in reports:
+        if not path:
+            continue
+        same = seen.get(str(Path(path).resolve()))
+        if same:
+            raise InputError(f"{same} and {option} name the same file; give each report its own",
+                             path)
+        seen[str(Path(path).resolve())] = option
+        can_write(path, what=what, replace_reports=True, kind=kind)
+
+
 def _report_entry_errors(summary) -> None:
     """One line on stderr per entry that could not be checked (the table lists them too)."""
     shown = set()
@@ -121,6 +137,10 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
     from verify import reports_batch as rb
 
     try:
+        _check_report_paths([(junit_path, "JUnit report", "--junit", "junit"),
+                             (md_path, "Markdown summary", "--markdown", "markdown"),
+                             (None if json_path == "-" else json_path, "JSON summary", "--json",
+                              rb.JSON_FORMAT)])
         loaded = gate.load_manifest(manifest)
     except InputError as e:
         click.echo(f"error: {e}", err=True)
