@@ -80,10 +80,10 @@ def skip_missing_propagate(n: Netlist) -> Netlist:
 
 def overflow_wrong_carries(n: Netlist) -> Netlist:
     # v must be c8 ^ c7 (carry out of, and carry into, the sign bit); this one uses c7 ^ c6
-    v = next(g for g in n.gates if g.output == "v")
-    a, b = v.inputs
-    n = rewire(n, "v", a, "c7")
-    return rewire(n, "v", b, "c6")
+    # both inputs at once, by position: rewiring one at a time turned (cout, c7) into (c6, c6)
+    gates = tuple(Gate(g.op, ("c7", "c6"), g.output, g.source) if g.output == "v" else g
+                  for g in n.gates)
+    return Netlist(n.name, n.inputs, n.outputs, gates).validate()
 
 
 DESIGNS = [
