@@ -9,6 +9,7 @@ import sys
 import pytest
 
 from tests.helpers import rewire, ripple
+from verify import logbook
 from verify.cli import main
 from verify.formats import json_netlist
 
@@ -56,7 +57,7 @@ def test_json_output_and_the_run_log(files, capsys):
     total = cex["inputs"]["a"] + cex["inputs"]["b"] + cex["inputs"]["cin"]  # Python integers
     assert cex["expected"] == {"sum": total % 256, "cout": total >> 8}
     assert cex["actual"] != cex["expected"]
-    log = [json.loads(x) for x in (tmp / "logs" / "runs.jsonl").read_text().splitlines()]
+    log = logbook.read(tmp / "logs")
     assert len(log) == 1 and log[0]["verdict"] == "fail"
     assert log[0]["design_hash"] == data["design"]["hash"]
     assert log[0]["counterexample"]["inputs"] == cex["inputs"]
