@@ -174,3 +174,16 @@ def unpack(netlist: Netlist, outs: Sequence[int], count: int) -> list[dict[str, 
                 v |= (int(w) >> j & 1) << i
             result[j][p.name] = v
     return result
+
+
+def vector_of(netlist: Netlist, words: Sequence[int], j: int) -> dict[str, int]:
+    """The input vector held in position j of bit-sliced input words."""
+    out: dict[str, int] = {}
+    k = 0
+    for p in netlist.inputs:
+        v = 0
+        for i in range(p.width):
+            v |= (int(words[k + i]) >> j & 1) << i
+        k += p.width
+        out[p.name] = v
+    return out
