@@ -208,3 +208,17 @@ def test_a_record_from_another_build_of_the_tool_never_matches(tmp_path, monkeyp
     key_now = cachemod.make_key(files, {}, "s", {})
     monkeypatch.setattr(cachemod, "tool_build", lambda: "0.1.0+someotherbuild (z3-solver=1)")
     assert cachemod.make_key(files, {}, "s", {}) != key_now
+
+
+def test_an_unwritable_cache_is_a_warning_not_silence(tmp_path):
+    from tests.helpers import ripple
+    from verify import gate
+    from verify.formats import json_netlist
+    (tmp_path / "r.json").write_text(json_netlist.dumps(ripple(4)))
+    (tmp_path / "verify.toml").write_text(
+        '[[design]]\nname = "r"\nfiles = ["r.json"]\nspec = "{cout, sum} = a + b + cin"\n')
+    blocker = tmp_path / "not_a_folder"
+    blocker.write_text("a file where the cache folder would go")
+    summary = gate.run(tmp_path / "verify.toml", cache_dir=blocker / "cache")
+    assert summary.exit_code == 0  # the verdict still stands
+    assert any("could not be written" in w for w in summary.warnings)

@@ -156,6 +156,8 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
             summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
                                progress=show, only=only or None)
     _report_entry_errors(summary)
+    for note in summary.warnings:
+        click.echo(f"warning: {note}", err=True)
     if junit_path:
         _write(junit_path, rb.render_junit(summary), "JUnit report")
     if md_path:

@@ -482,6 +482,8 @@ class RunSummary:
     cache_used: bool
     tool_version: str = __version__
     counts: dict[str, int] = field(default_factory=dict)
+    #: things the user should know that are not verdicts (e.g. the cache could not be written)
+    warnings: list[str] = field(default_factory=list)
 
     @property
     def exit_code(self) -> int:
@@ -563,6 +565,8 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
             first_of[key] = i
             pending.append((i, e, p, key, files))
 
+    warnings: list[str] = []
+
     def store(i: int, record: dict, key: str, files: dict) -> None:
         nonlocal done
         records[i] = _finish(record, cached=False, seconds=record["checked_seconds"], key=key,
@@ -570,8 +574,10 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
         # a fresh definite verdict is recorded even with use_cache=False: that run re-checked it
         try:
             cache.put(key, files, record)
-        except OSError:
-            pass  # a read-only checkout still gets its verdicts, just not cached
+        except OSError as e:  # a read-only checkout still gets its verdicts, just not cached
+            note = f"the result cache in {cache.folder} could not be written ({e.strerror or e}); verdicts are not cached"
+            if note not in warnings:
+                warnings.append(note)
         done += 1
         if progress:
             progress("done", done, total, records[i], records[i]["label"])
@@ -595,4 +601,4 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
     for r in final:
         counts[r["status"]] = counts.get(r["status"], 0) + 1
     return RunSummary(str(manifest.path), final, time.perf_counter() - started, jobs, use_cache,
-                      counts=counts)
+                      counts=counts, warnings=warnings)
