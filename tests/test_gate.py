@@ -464,3 +464,12 @@ def test_an_earlier_report_is_still_replaced(lib, capsys):
                                str(lib / "s.json"), "--markdown", str(lib / "s.md"))
         assert code == 0, err
     assert ET.parse(j).getroot().get("tests") == "1"
+
+
+def test_an_error_shared_by_identical_entries_is_never_marked_cached(lib):
+    text = (entry("first", "rtl/larkspur_add4.json", spec="{cout, sum} = a + q") +
+            entry("second", "rtl/larkspur_add4.json", spec="{cout, sum} = a + q"))
+    summary = gate.run(manifest(lib, text))
+    assert [r["status"] for r in summary.records] == ["error", "error"]
+    assert [r["cached"] for r in summary.records] == [False, False]
+    assert summary.exit_code == 2

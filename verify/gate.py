@@ -547,8 +547,9 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
             base["same_as"] = same_as
         if base.get("error_key"):  # an entry's own manifest line, not its twin's
             base["error"] = entry_error(e, base["error_key"], base["error_detail"])
-        records[i] = _finish(base, cached=True, seconds=time.perf_counter() - t0, key=key,
-                             files=files)
+        # an error is never stored in the cache, so an entry sharing one is not "cached"
+        records[i] = _finish(base, cached=not base.get("error"), seconds=time.perf_counter() - t0,
+                             key=key, files=files)
         done += 1
         if progress:
             progress("done", done, total, records[i], label(e.name, p))
