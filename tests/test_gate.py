@@ -467,8 +467,8 @@ def test_an_earlier_report_is_still_replaced(lib, capsys):
 
 
 def test_an_error_shared_by_identical_entries_is_never_marked_cached(lib):
-    text = (entry("first", "rtl/larkspur_add4.json", spec="{cout, sum} = a + q") +
-            entry("second", "rtl/larkspur_add4.json", spec="{cout, sum} = a + q"))
+    text = "".join(f'[[design]]\nname = "{n}"\nfiles = ["rtl/larkspur_add4.json"]\n'
+                   f'spec = "{{cout, sum}} = a + q"\n\n' for n in ("first", "second"))
     summary = gate.run(manifest(lib, text))
     assert [r["status"] for r in summary.records] == ["error", "error"]
     assert [r["cached"] for r in summary.records] == [False, False]
