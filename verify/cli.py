@@ -17,7 +17,7 @@ from verify import __version__
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT
 from verify.errors import InputError
 from verify.formats import VERILOG_SUFFIXES
-from verify.result import Verdict
+from verify.result import Verdict, worst_exit_code
 
 ENGINES = ("auto", "exhaustive", "smt", "random")
 
@@ -260,7 +260,7 @@ def _report(runs, as_json: bool, several: bool) -> int:
                 items.append(reports.render_json(r, params=point or None))
                 codes.append(r.exit_code)
         click.echo(reports.dumps(items if several else items[0]))
-        return worst(codes)
+        return worst_exit_code(codes)
     for n, (label, point, r, lines) in enumerate(runs):
         if n:
             click.echo("\n" + "-" * 78)
@@ -273,7 +273,7 @@ def _report(runs, as_json: bool, several: bool) -> int:
     if several:
         click.echo("\n" + "=" * 78)
         click.echo(summary_table(runs))
-    return worst(codes)
+    return worst_exit_code(codes)
 
 
 def summary_table(runs) -> str:
@@ -294,12 +294,6 @@ def summary_table(runs) -> str:
     return "\n".join(lines)
 
 
-def worst(codes: list[int]) -> int:
-    """One exit code for several results: 2 (bad input) over 1 (fail) over 3 (inconclusive)."""
-    for c in (2, 1, 3):
-        if c in codes:
-            return c
-    return 0
 
 
 # ---- verify export ---------------------------------------------------------------------------

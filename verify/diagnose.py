@@ -27,6 +27,7 @@ from verify.errors import InputError
 from verify.outputs import write_text
 from verify.netlist import CONSTANTS, Netlist
 from verify.result import Counterexample
+from verify.sim import values_at
 
 _FILE_LINE = re.compile(r"^(?P<where>\S+:\d+) (?P<inst>\S.*)$")
 
@@ -469,15 +470,8 @@ def write_waveform(an: Analysis, spec, path: str | Path) -> Path:
         picks.append(j)
         rest &= rest - 1
     vectors = [an.vectors[j] for j in picks]
-    expected = []
-    for j in picks:
-        e = {}
-        for p in an.design.outputs:
-            v = 0
-            for i, b in enumerate(p.bits):
-                v |= (an.expected[b] >> j & 1) << i
-            e[p.name] = v
-        expected.append(e)
+    expected_words = [an.expected[b] for b in an.design.output_bits]
+    expected = [values_at(an.design.outputs, expected_words, j) for j in picks]
     comment = (f"adder-verify diagnosis of {an.design.name}: step 0 is the vector diagnosed, "
                f"steps 1.. are other failing vectors")
     return write_text(path, vcd.dumps(an.design, vectors, expected=expected, comment=comment),

@@ -39,6 +39,7 @@ from typing import Any, Callable, Iterable, Sequence
 
 from verify import __version__
 from verify.errors import InputError
+from verify.result import worst_exit_code
 
 try:  # Python 3.11+
     import tomllib as _toml
@@ -487,11 +488,7 @@ class RunSummary:
 
     @property
     def exit_code(self) -> int:
-        codes = [r["exit_code"] for r in self.records]
-        for c in (2, 1, 3):
-            if c in codes:
-                return c
-        return 0
+        return worst_exit_code(r["exit_code"] for r in self.records)
 
     @property
     def ok(self) -> bool:

@@ -190,6 +190,15 @@ def exit_code(verdict: Verdict, require: Require = Require.TESTED) -> int:
     return 3
 
 
+def worst_exit_code(codes) -> int:
+    """One exit code for several results: 2 (bad input) over 1 (fail) over 3 (inconclusive)."""
+    codes = set(codes)
+    for c in (2, 1, 3):
+        if c in codes:
+            return c
+    return 0
+
+
 def combine(outcomes: list[EngineOutcome]) -> tuple[Verdict, Counterexample | None]:
     """The verdict a list of engine outcomes supports: a failure beats all, a proof beats a sample.
 

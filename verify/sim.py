@@ -14,7 +14,7 @@ from __future__ import annotations
 
 from typing import Mapping, Sequence
 
-from verify.netlist import CONST0, CONST1, Netlist
+from verify.netlist import CONST0, CONST1, Netlist, Port
 
 Word = int  # or a numpy uint64 array
 
@@ -163,27 +163,22 @@ def pack(netlist: Netlist, vectors: Sequence[Mapping[str, int]]) -> list[int]:
 
 def unpack(netlist: Netlist, outs: Sequence[int], count: int) -> list[dict[str, int]]:
     """Output words back to one {port: int} per vector."""
-    result: list[dict[str, int]] = [{} for _ in range(count)]
-    k = 0
-    for p in netlist.outputs:
-        port_words = outs[k:k + p.width]
-        k += p.width
-        for j in range(count):
-            v = 0
-            for i, w in enumerate(port_words):
-                v |= (int(w) >> j & 1) << i
-            result[j][p.name] = v
-    return result
+    return [values_at(netlist.outputs, outs, j) for j in range(count)]
 
 
-def vector_of(netlist: Netlist, words: Sequence[int], j: int) -> dict[str, int]:
-    """The input vector held in position j of bit-sliced input words."""
+def values_at(ports: Sequence[Port], words: Sequence[Word], j: int) -> dict[str, int]:
+    """{port: value} in position j of bit-sliced words (one word per bit, ports in order)."""
     out: dict[str, int] = {}
     k = 0
-    for p in netlist.inputs:
+    for p in ports:
         v = 0
         for i in range(p.width):
             v |= (int(words[k + i]) >> j & 1) << i
         k += p.width
         out[p.name] = v
     return out
+
+
+def vector_of(netlist: Netlist, words: Sequence[int], j: int) -> dict[str, int]:
+    """The input vector held in position j of bit-sliced input words."""
+    return values_at(netlist.inputs, words, j)
