@@ -22,7 +22,7 @@ from hypothesis.errors import NoSuchExample
 
 from verify.engines import confirm
 from verify.result import Counterexample
-from verify.sim import Miter, pack
+from verify.sim import Miter, miter_of, pack
 
 _KEY = b"adder-verify-shrink"
 
@@ -30,7 +30,7 @@ _KEY = b"adder-verify-shrink"
 def shrink(design, spec, cex: Counterexample, *, seconds: float = 5.0,
            miter: Miter | None = None) -> Counterexample:
     """A failing vector no larger than ``cex`` (usually much smaller)."""
-    miter = miter or Miter(design, spec.reference())
+    miter = miter or miter_of(design, spec.reference())
     names = [p.name for p in design.inputs]
     deadline = time.perf_counter() + seconds
 

@@ -12,6 +12,7 @@ one word whose set bits are the vectors where any output differs.
 
 from __future__ import annotations
 
+from functools import lru_cache
 from typing import Mapping, Sequence
 
 from verify.netlist import CONST0, CONST1, Netlist, Port
@@ -143,6 +144,13 @@ class Miter:
 
     def run(self, words: Sequence[Word], mask: Word) -> Word:
         return self._run(words, mask)
+
+
+@lru_cache(maxsize=4)
+def miter_of(design: Netlist, reference: Netlist) -> Miter:
+    """The compiled miter of a design and its reference, compiled once however many engines
+    (and the shrinker) of one check use it. Netlists are immutable, so the pair is the key."""
+    return Miter(design, reference)
 
 
 # ---- packing vectors into words and back ----------------------------------------------------

@@ -14,7 +14,7 @@ import numpy as np
 
 from verify.engines import Options, confirmed, stopped
 from verify.result import EngineOutcome
-from verify.sim import Miter
+from verify.sim import miter_of
 
 CHUNK_BITS = 18  # 2^18 vectors = 4096 words of 64 bits per chunk
 _ALL = np.uint64(0xFFFFFFFFFFFFFFFF)
@@ -47,7 +47,7 @@ def run(design, spec, options: Options) -> EngineOutcome:
             "exhaustive", "skipped", 0.0,
             f"{n} input bits is 2^{n} vectors, over the exhaustive limit of 2^{options.exhaustive_limit}",
             details={"input_bits": n, "limit_bits": options.exhaustive_limit})
-    miter = Miter(design, spec.reference())
+    miter = miter_of(design, spec.reference())
     total = 1 << n
     lo, hi = shard_range(total, options.shard)
     found, done = (_scan_small if n <= 12 else _scan_chunks)(miter, n, lo, hi, options, started)

@@ -22,7 +22,7 @@ import numpy as np
 
 from verify.engines import DEFAULT_VECTORS, Options, confirmed, stopped
 from verify.result import EngineOutcome
-from verify.sim import Miter
+from verify.sim import miter_of
 
 _BITS_PER_BATCH = 1 << 22
 
@@ -30,7 +30,7 @@ _BITS_PER_BATCH = 1 << 22
 def run(design, spec, options: Options) -> EngineOutcome:
     started = time.perf_counter()
     budget = options.vectors if options.vectors is not None else DEFAULT_VECTORS
-    miter = Miter(design, spec.reference())
+    miter = miter_of(design, spec.reference())
     gen = VectorStream(design, options.seed, budget)
     done = 0
     details = {"seed": options.seed}
