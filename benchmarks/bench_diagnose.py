@@ -33,10 +33,11 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 
-from verify import architectures, spec as specmod  # noqa: E402
-from verify.diagnose_dot import cone  # noqa: E402
-from verify.diagnose_locate import analyse  # noqa: E402
-from verify.netlist import Gate, Netlist  # noqa: E402
+from verify import spec as specmod  # noqa: E402
+from verify.library import architectures  # noqa: E402
+from verify.render.dot import cone  # noqa: E402
+from verify.diagnosis.suspects import analyse  # noqa: E402
+from verify.model.netlist import Gate, Netlist  # noqa: E402
 from verify.sim import Miter, pack, vector_of  # noqa: E402
 
 ARCHS = ["ripple", "ripple-maj", "carry-lookahead", "carry-skip", "carry-select",
@@ -129,8 +130,8 @@ def find_failure(faulty: Netlist, spec, rng: random.Random) -> dict | None:
         ones = [t for t in range(total) if diff >> t & 1]
         j = rng.choice(ones)
         return vector_of(faulty, words, j)
-    from verify.diagnose_locate import make_vectors
-    from verify.diagnose_model import detect
+    from verify.diagnosis.suspects import make_vectors
+    from verify.diagnosis.reference import detect
     vecs = make_vectors(faulty, [], detect(faulty, spec), 8192, rng.randrange(1 << 30))
     diff = miter.run(pack(faulty, vecs), (1 << len(vecs)) - 1)
     if not diff:

@@ -24,7 +24,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
 import z3  # noqa: E402
 
-from verify.architectures import generate  # noqa: E402
+from verify.library.architectures import generate  # noqa: E402
 from verify.engines import Options, exhaustive, randomized, smt  # noqa: E402
 from verify.spec import parse  # noqa: E402
 

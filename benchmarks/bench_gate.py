@@ -26,8 +26,8 @@ from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from verify import gate  # noqa: E402
-from verify.architectures import generate  # noqa: E402
+from verify.manifest import runner as gate  # noqa: E402
+from verify.library.architectures import generate  # noqa: E402
 from verify.check import check  # noqa: E402
 
 

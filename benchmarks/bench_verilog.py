@@ -29,7 +29,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
-from verify.formats import verilog  # noqa: E402
+from verify.formats.verilog import reader as verilog  # noqa: E402
 from verify.sim import Simulator  # noqa: E402
 
 TARGET_S = 10.0

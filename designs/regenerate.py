@@ -19,9 +19,10 @@ from typing import Callable
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent))
 
-from verify.architectures import generate  # noqa: E402
-from verify.formats import json_netlist, verilog_writer  # noqa: E402
-from verify.netlist import Gate, Netlist  # noqa: E402
+from verify.library.architectures import generate  # noqa: E402
+from verify.formats import json_netlist  # noqa: E402
+from verify.formats.verilog import writer as verilog_writer  # noqa: E402
+from verify.model.netlist import Gate, Netlist  # noqa: E402
 
 
 @dataclass(frozen=True)

@@ -2,8 +2,8 @@
 
 from __future__ import annotations
 
-from verify.builder import GateBuilder
-from verify.netlist import Gate, Netlist, Port
+from verify.model.builder import GateBuilder
+from verify.model.netlist import Gate, Netlist, Port
 
 
 def ripple(width: int, *, cin: bool = True, name: str | None = None) -> Netlist:

@@ -19,9 +19,9 @@ import pytest
 import z3
 
 from tests.helpers import HARRIS_2003
-from verify.architectures import ARCHITECTURES, PREFIX_SOURCE, generate, prefix_schedule
+from verify.library.architectures import ARCHITECTURES, PREFIX_SOURCE, generate, prefix_schedule
 from verify.errors import InputError
-from verify.netlist import Gate, Netlist, Port
+from verify.model.netlist import Gate, Netlist, Port
 
 ARCHS = list(ARCHITECTURES)
 PREFIX = [a for a, spec in ARCHITECTURES.items() if spec.family == "prefix"]
@@ -262,7 +262,7 @@ def test_verilog_of_a_generated_adder_simulates_in_iverilog(tmp_path):
     import subprocess
     if not shutil.which("iverilog"):
         pytest.skip("iverilog not installed")
-    from verify.formats.verilog_writer import dumps
+    from verify.formats.verilog.writer import dumps
     width = 6
     for arch in ("kogge-stone", "carry-select", "conditional-sum", "carry-lookahead"):
         n = generate(arch, width, overflow=True)

@@ -8,8 +8,9 @@ import json
 import pytest
 
 from tests.helpers import rewire, ripple
-from verify import __version__, gate
-from verify.cache import CACHEABLE, Cache, dependencies, file_hashes, make_key
+from verify import __version__
+from verify.manifest import runner as gate
+from verify.manifest.cache import CACHEABLE, Cache, dependencies, file_hashes, make_key
 from verify.formats.json_netlist import dumps
 
 ADD = "{cout, sum} = a + b + cin"
@@ -201,7 +202,7 @@ def test_a_changed_submodule_file_changes_the_key(tmp_path):
 def test_a_record_from_another_build_of_the_tool_never_matches(tmp_path, monkeypatch):
     # A record stored by a different build (older release, patched checkout) must be ignored,
     # even when the version string is the same: the build id hashes the package's sources.
-    from verify import cache as cachemod
+    from verify.manifest import cache as cachemod
     build = cachemod.tool_build()
     assert "+" in build and "z3-solver=" in build and "pyslang=" in build
     files = {"x.json": "0" * 64}
@@ -212,7 +213,7 @@ def test_a_record_from_another_build_of_the_tool_never_matches(tmp_path, monkeyp
 
 def test_an_unwritable_cache_is_a_warning_not_silence(tmp_path):
     from tests.helpers import ripple
-    from verify import gate
+    from verify.manifest import runner as gate
     from verify.formats import json_netlist
     (tmp_path / "r.json").write_text(json_netlist.dumps(ripple(4)))
     (tmp_path / "verify.toml").write_text(

@@ -9,8 +9,8 @@ import sys
 import pytest
 
 from tests.helpers import rewire, ripple
-from verify import logbook
-from verify.cli import main
+from verify.manifest import runlog as logbook
+from verify.cli.main import main
 from verify.formats import json_netlist
 
 

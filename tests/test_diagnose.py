@@ -18,19 +18,20 @@ from pathlib import Path
 import pytest
 
 from tests.helpers import rewire, ripple
-from verify import architectures, diagnose
+from verify.library import architectures
+from verify.diagnosis import explain as diagnose
 from verify import spec as specmod
-from verify.builder import GateBuilder
-from verify.cli import cli, main
-from verify.cli_diagnose import register
-from verify.diagnose_locate import analyse
-from verify.diagnose_model import detect
+from verify.model.builder import GateBuilder
+from verify.cli.main import cli, main
+from verify.cli.explain import register
+from verify.diagnosis.suspects import analyse
+from verify.diagnosis.reference import detect
 from verify.errors import InputError
 from verify.formats import json_netlist
-from verify.netlist import Gate, Netlist, Port
-from verify.result import Counterexample
+from verify.model.netlist import Gate, Netlist, Port
+from verify.model.result import Counterexample
 from verify.sim import Simulator
-from verify.shrink import shrink
+from verify.engines.shrink import shrink
 
 ADD = "{cout, sum} = a + b + cin"
 register(cli)

@@ -11,8 +11,8 @@ import verify
 from tests.helpers import array_multiplier, rewire, ripple, skip_fault
 from verify.check import resolve_spec
 from verify.engines import Options, exhaustive, randomized, smt
-from verify.netlist import Gate, Netlist
-from verify.result import Verdict
+from verify.model.netlist import Gate, Netlist
+from verify.model.result import Verdict
 from verify.sim import Simulator
 from verify.spec import parse
 

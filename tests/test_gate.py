@@ -13,11 +13,11 @@ from pathlib import Path
 import pytest
 
 from tests.helpers import rewire, ripple
-from verify import gate
-from verify.cli_gate import main
+from verify.manifest import runner as gate
+from verify.cli.run import main
 from verify.errors import InputError
 from verify.formats.json_netlist import dumps
-from verify.reports_batch import render_json, render_junit, render_markdown
+from verify.render.batch import render_json, render_junit, render_markdown
 
 ADD = "{cout, sum} = a + b + cin"
 REPO = Path(__file__).resolve().parents[1]
@@ -283,7 +283,7 @@ def git(repo: Path, *args: str) -> str:
 
 def verify_run(repo: Path, *args: str) -> subprocess.CompletedProcess:
     """The command as CI runs it: a fresh process in the repo."""
-    code = "from verify.cli_gate import main; main()"
+    code = "from verify.cli.run import main; main()"
     return subprocess.run([sys.executable, "-c", code, "run", *args], cwd=repo,
                           capture_output=True, text=True, timeout=120)
 
@@ -353,7 +353,7 @@ def test_the_terminal_progress_bar_starts_no_thread(lib, capsys):
     """Workers are forked while the bar is shown: the bar must not leave a thread running."""
     import threading
 
-    from verify.cli_gate import _RichProgress
+    from verify.cli.run import _RichProgress
 
     m = manifest(lib, entry("larkspur_add4", "rtl/larkspur_add4.json") +
                  entry("larkspur_bad5", "rtl/larkspur_bad5.json"))

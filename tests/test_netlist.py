@@ -8,8 +8,9 @@ import pytest
 
 from tests.helpers import ripple
 from verify.errors import InputError, NetlistError
-from verify.formats import json_netlist, load, verilog_writer
-from verify.netlist import Gate, Netlist, Port
+from verify.formats import json_netlist, load
+from verify.formats.verilog import writer as verilog_writer
+from verify.model.netlist import Gate, Netlist, Port
 
 
 def make(gates, inputs=(("a", 2), ("b", 2)), outputs=(("y", 2),)):

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from verify.cli import main
+from verify.cli.main import main
 from verify.errors import InputError
-from verify.outputs import write_text
+from verify.files import write_text
 
 
 def test_a_design_output_never_replaces_an_existing_file(tmp_path):

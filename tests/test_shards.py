@@ -8,14 +8,14 @@ import pytest
 from hypothesis import given, settings, strategies as st
 
 from tests.helpers import ripple
-from verify.builder import GateBuilder
-from verify.cli_gate import main
+from verify.model.builder import GateBuilder
+from verify.cli.run import main
 from verify.engines import Options, exhaustive
 from verify.engines.exhaustive import shard_range
 from verify.errors import InputError
 from verify.formats.json_netlist import dumps
-from verify.netlist import Port
-from verify.shards import merge
+from verify.model.netlist import Port
+from verify.manifest.shards import merge
 from verify.spec import parse
 
 ADD = "{cout, sum} = a + b + cin"

@@ -9,7 +9,7 @@ import numpy as np
 import pytest
 
 from tests.helpers import ripple
-from verify.netlist import Gate, Netlist, Port
+from verify.model.netlist import Gate, Netlist, Port
 from verify.sim import Miter, Simulator, pack, unpack
 
 # The meaning of each op, written out independently of verify/sim.py (common practice).

@@ -19,7 +19,7 @@ from hypothesis import HealthCheck, assume, given, settings
 from hypothesis import strategies as st
 
 from verify.errors import InputError, SpecError
-from verify.netlist import Netlist, Port
+from verify.model.netlist import Netlist, Port
 from verify.spec import MAX_BITS, Spec, infer, parse
 
 try:  # the project's compiled simulator, when it is there: a second, independent evaluator

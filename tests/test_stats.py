@@ -1,4 +1,4 @@
-"""verify.stats and the generate/stats commands.
+"""verify.library.shape and the generate/stats commands.
 
 Figures are checked against hand-counted small circuits (counted in the comments), the ripple
 adder's textbook depth (common practice), and D. Harris, "A Taxonomy of Parallel Prefix Networks"
@@ -15,11 +15,11 @@ import pytest
 from click.testing import CliRunner
 
 from tests.helpers import HARRIS_2003
-from verify.architectures import ARCHITECTURES, generate
-from verify.cli_library import register
+from verify.library.architectures import ARCHITECTURES, generate
+from verify.cli.library import register
 from verify.formats import json_netlist
-from verify.netlist import Gate, Netlist, Port
-from verify.stats import format_text, prefix_figures, stats
+from verify.model.netlist import Gate, Netlist, Port
+from verify.library.shape import format_text, prefix_figures, stats
 
 
 def _full_adder() -> Netlist:

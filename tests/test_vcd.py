@@ -15,8 +15,9 @@ import subprocess
 import pytest
 
 from tests.helpers import rewire, ripple
-from verify import architectures, vcd
-from verify.formats import verilog_writer
+from verify.library import architectures
+from verify.render import vcd
+from verify.formats.verilog import writer as verilog_writer
 from verify.sim import Simulator, pack
 
 
@@ -161,7 +162,7 @@ def test_many_nets_get_distinct_codes_and_bit_selects():
     widths, _ = parse_vcd(text)
     assert "kogge_stone16.G_14_0" in widths
     # an internal bus bit is written as a bit select
-    from verify.netlist import Gate, Netlist, Port
+    from verify.model.netlist import Gate, Netlist, Port
     d = Netlist("larkspur_and2", (Port("a", 2),), (Port("y", 1),),
                 (Gate("not", ("a[0]",), "t[0]"), Gate("not", ("a[1]",), "t[1]"),
                  Gate("nor", ("t[0]", "t[1]"), "y"))).validate()

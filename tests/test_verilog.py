@@ -11,7 +11,9 @@ import pytest
 
 import verify
 from verify.errors import InputError
-from verify.formats import load, verilog, verilog_writer
+from verify.formats import load
+from verify.formats.verilog import reader as verilog
+from verify.formats.verilog import writer as verilog_writer
 from verify.sim import Simulator
 
 from tests.test_verilog_harness import CORPUS, HAVE_IVERILOG, simulate, vectors

@@ -11,8 +11,8 @@ The Python API a hardware repo's own tests can call::
 __version__ = "0.1.0"
 
 from verify.errors import InputError  # noqa: E402
-from verify.netlist import Gate, Netlist, Port  # noqa: E402
-from verify.result import CheckResult, Verdict  # noqa: E402
+from verify.model.netlist import Gate, Netlist, Port  # noqa: E402
+from verify.model.result import CheckResult, Verdict  # noqa: E402
 from verify.formats import load  # noqa: E402
 # Bound after the submodule is imported, so that ``verify.check`` is the function, not the module.
 from verify.check import check  # noqa: E402

@@ -21,8 +21,8 @@ from typing import Callable
 
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT, Options
 from verify.errors import InputError
-from verify.netlist import Netlist
-from verify.result import CheckResult, EngineOutcome, Require, Verdict, combine
+from verify.model.netlist import Netlist
+from verify.model.result import CheckResult, EngineOutcome, Require, Verdict, combine
 
 ENGINE_NAMES = ("auto", "exhaustive", "smt", "random")
 #: how many random vectors auto runs before the complete engine
@@ -127,7 +127,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         verdict = Verdict.INCONCLUSIVE  # the complete engine was asked and gave no answer
     extras: dict = {}
     if cex is not None and shrink:
-        from verify.shrink import shrink as shrink_cex
+        from verify.engines.shrink import shrink as shrink_cex
         small = shrink_cex(design, the_spec, cex)
         if small != cex:
             extras["found_counterexample"] = cex.to_json()

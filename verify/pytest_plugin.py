@@ -4,7 +4,7 @@ Installed with adder-verify (entry point ``pytest11``: ``adder_verify = verify.p
 loaded by hand with ``-p verify.pytest_plugin``. Any collected file named ``verify.toml`` (the
 ``verify_manifest_names`` ini option changes the names) becomes one test per design and parameter
 value, named like ``verify.toml::larkspur_acc W=32``. A test passes when the entry meets its
-manifest (see ``verify.gate``), and shows the verdict, the engines' evidence and any counterexample
+manifest (see ``verify.manifest.runner``), and shows the verdict, the engines' evidence and any counterexample
 when it does not. The result cache is used as by ``verify run``; ``--verify-no-cache`` turns it off.
 
 ``pytest`` collects a root ``verify.toml`` when the root is collected; with ``testpaths`` set, name
@@ -36,7 +36,7 @@ def pytest_collect_file(file_path: Path, parent):
 
 class ManifestFile(pytest.File):
     def collect(self):
-        from verify import gate
+        from verify.manifest import runner as gate
         try:
             manifest = gate.load_manifest(self.path)
         except InputError as e:
@@ -65,7 +65,7 @@ class EntryItem(pytest.Item):
         self.add_marker(pytest.mark.adder_verify)
 
     def runtest(self):
-        from verify import gate
+        from verify.manifest import runner as gate
         summary = gate.run(self.manifest, use_cache=not self.config.getoption("verify_no_cache"),
                            only=[self.entry.name], point=self.point)
         self.record = summary.records[0]
@@ -76,7 +76,7 @@ class EntryItem(pytest.Item):
 
     def repr_failure(self, excinfo, style=None):
         if isinstance(excinfo.value, EntryNotMet):
-            from verify.reports_batch import _details, problem_text
+            from verify.render.batch import _details, problem_text
             r = excinfo.value.record
             return f"{r['label']}: {problem_text(r)}\n{_details(r)}"
         return super().repr_failure(excinfo, style=style)

@@ -15,7 +15,7 @@ from __future__ import annotations
 from functools import lru_cache
 from typing import Mapping, Sequence
 
-from verify.netlist import CONST0, CONST1, Netlist, Port
+from verify.model.netlist import CONST0, CONST1, Netlist, Port
 
 Word = int  # or a numpy uint64 array
 

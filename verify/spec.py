@@ -33,9 +33,9 @@ from dataclasses import dataclass, field
 from functools import reduce
 from typing import Any, Callable, Mapping, NamedTuple, Sequence
 
-from verify.builder import GateBuilder
+from verify.model.builder import GateBuilder
 from verify.errors import SpecError
-from verify.netlist import CONST0, CONST1, Netlist, Port
+from verify.model.netlist import CONST0, CONST1, Netlist, Port
 
 __all__ = ["Spec", "parse", "infer", "MAX_BITS"]
 

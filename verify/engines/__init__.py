@@ -10,8 +10,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Callable, Mapping
 
-from verify.netlist import Netlist
-from verify.result import Counterexample, EngineOutcome
+from verify.model.netlist import Netlist
+from verify.model.result import Counterexample, EngineOutcome
 
 #: the largest input space the exhaustive engine takes by default: 2^26 vectors
 DEFAULT_EXHAUSTIVE_BITS = 26

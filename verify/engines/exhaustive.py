@@ -13,7 +13,7 @@ import time
 import numpy as np
 
 from verify.engines import Options, confirmed, stopped
-from verify.result import EngineOutcome
+from verify.model.result import EngineOutcome
 from verify.sim import miter_of
 
 CHUNK_BITS = 18  # 2^18 vectors = 4096 words of 64 bits per chunk

@@ -21,7 +21,7 @@ import time
 import numpy as np
 
 from verify.engines import DEFAULT_VECTORS, Options, confirmed, stopped
-from verify.result import EngineOutcome
+from verify.model.result import EngineOutcome
 from verify.sim import miter_of
 
 _BITS_PER_BATCH = 1 << 22

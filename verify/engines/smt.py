@@ -13,8 +13,8 @@ import time
 import z3
 
 from verify.engines import Options, confirmed
-from verify.netlist import CONST0, CONST1, Netlist
-from verify.result import EngineOutcome
+from verify.model.netlist import CONST0, CONST1, Netlist
+from verify.model.result import EngineOutcome
 
 
 def design_terms(design: Netlist, inputs: dict[str, z3.BitVecRef]) -> dict[str, z3.BitVecRef]:

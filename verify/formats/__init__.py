@@ -6,7 +6,7 @@ from pathlib import Path
 from typing import Mapping, Sequence
 
 from verify.errors import InputError
-from verify.netlist import Netlist
+from verify.model.netlist import Netlist
 
 VERILOG_SUFFIXES = (".v", ".sv", ".vh", ".svh")
 
@@ -38,7 +38,7 @@ def load(paths: str | Path | Sequence[str | Path], *, top: str | None = None,
         return json_netlist.parse(text, str(paths[0]))
     if all(p.suffix in VERILOG_SUFFIXES for p in paths):
         try:
-            from verify.formats import verilog
+            from verify.formats.verilog import reader as verilog
         except ImportError:  # pragma: no cover - until the Verilog reader lands
             raise InputError("reading Verilog is not available in this build", str(paths[0])) from None
         return verilog.load(paths, top=top, params=dict(params or {}),

@@ -17,7 +17,7 @@ import json
 from typing import Any
 
 from verify.errors import InputError
-from verify.netlist import MAX_PORT_WIDTH, Gate, Netlist, Port, canonical_ref
+from verify.model.netlist import MAX_PORT_WIDTH, Gate, Netlist, Port, canonical_ref
 
 FORMAT = "verify-netlist/1"
 _TOP_KEYS = {"format", "name", "inputs", "outputs", "gates", "comment"}

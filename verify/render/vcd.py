@@ -18,7 +18,7 @@ import re
 from pathlib import Path
 from typing import Mapping, Sequence
 
-from verify.netlist import Netlist
+from verify.model.netlist import Netlist
 from verify.sim import Simulator, pack
 
 _BIT = re.compile(r"^(?P<name>.+)\[(?P<index>-?\d+)\]$")

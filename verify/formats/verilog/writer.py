@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import re
 
-from verify.netlist import CONST0, CONST1, Netlist
+from verify.model.netlist import CONST0, CONST1, Netlist
 
 _IDENT = re.compile(r"^[A-Za-z_][A-Za-z0-9_$]*$")
 _PORT_BIT = re.compile(r"^(?P<name>[A-Za-z_][A-Za-z0-9_$]*)\[(?P<index>\d+)\]$")

@@ -1,6 +1,6 @@
 """``verify run`` (check every entry of a manifest) and ``verify merge`` (join exhaustive shards).
 
-``register(cli)`` adds both commands to the main click group (verify.cli).
+``register(cli)`` adds both commands to the main click group (verify.cli.main).
 """
 
 from __future__ import annotations
@@ -78,14 +78,14 @@ def _progress(quiet: bool):
 
 
 def _write(path: str, text: str, what: str) -> None:
-    from verify.outputs import write_text
+    from verify.files import write_text
     write_text(path, text, what=what, replace_reports=True)
 
 
 def _check_report_paths(reports) -> None:
     """Refuse, before anything is checked, a report path that could not be written at the end (a
     hand-written file, another kind of report, a folder) or that two reports share."""
-    from verify.outputs import can_write
+    from verify.files import can_write
     seen: dict[str, str] = {}
     for path, what, option, kind in reports:
         if not path:
@@ -133,8 +133,8 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
     or a proof for an entry marked expect = "fail"), 3 when a result is inconclusive or weaker
     than its require, 2 for a bad manifest or a design that cannot be read.
     """
-    from verify import gate
-    from verify import reports_batch as rb
+    from verify.manifest import runner as gate
+    from verify.render import batch as rb
 
     try:
         _check_report_paths([(junit_path, "JUnit report", "--junit", "junit"),
@@ -181,7 +181,7 @@ def merge_cmd(files, as_json):
     1 when any shard found a counterexample; 3 when shards are missing or one stopped without an
     answer; 2 when the files are not shards of one design and spec, or repeat or overlap.
     """
-    from verify import shards
+    from verify.manifest import shards
 
     try:
         merged = shards.merge(files)
@@ -198,7 +198,7 @@ def merge_cmd(files, as_json):
 
 
 def main(argv: list[str] | None = None) -> None:
-    """``verify`` with these commands registered, whether or not verify.cli registers them."""
-    from verify import cli as main_cli
+    """``verify`` with these commands registered, whether or not verify.cli.main registers them."""
+    from verify.cli import main as main_cli
     register(main_cli.cli)
     main_cli.main(argv)

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from typing import Iterable, Mapping, Sequence
 
-from verify.netlist import CONST0, CONST1, Gate, Netlist, Port
+from verify.model.netlist import CONST0, CONST1, Gate, Netlist, Port
 
 Word = list[str]
 

@@ -21,7 +21,7 @@ from hypothesis.database import InMemoryExampleDatabase, choices_to_bytes
 from hypothesis.errors import NoSuchExample
 
 from verify.engines import confirm
-from verify.result import Counterexample
+from verify.model.result import Counterexample
 from verify.sim import Miter, miter_of, pack
 
 _KEY = b"adder-verify-shrink"

@@ -20,7 +20,7 @@ design broken on purpose: it meets expectations when a counterexample is found),
 ``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
 
 ``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
-with the same results as one job - and reports each one from the cache (``verify.cache``) when
+with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
 nothing it rests on changed. Exit code of a run: 2 when any entry could not be read (bad input),
 else 1 when any result contradicts the manifest (a counterexample in a design expected to pass, or
 a proof for one expected to fail), else 3 when any result is inconclusive or weaker than its
@@ -39,7 +39,7 @@ from typing import Any, Callable, Iterable, Sequence
 
 from verify import __version__
 from verify.errors import InputError
-from verify.result import worst_exit_code
+from verify.model.result import worst_exit_code
 
 try:  # Python 3.11+
     import tomllib as _toml
@@ -321,14 +321,14 @@ def label(name: str, point: dict[str, int]) -> str:
 
 
 def entry_files(entry: Entry, root: Path) -> list[Path]:
-    """The files an entry's design may be read from (see ``verify.cache.dependencies``)."""
-    from verify.cache import dependencies
+    """The files an entry's design may be read from (see ``verify.manifest.cache.dependencies``)."""
+    from verify.manifest.cache import dependencies
     return dependencies([root / f for f in entry.files], [root / d for d in entry.include_dirs])
 
 
 def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dict[str, str]]:
     """(cache key, {file: sha256}) for one entry at one parameter point."""
-    from verify.cache import file_hashes, make_key
+    from verify.manifest.cache import file_hashes, make_key
     files = file_hashes(entry_files(entry, root), root)
     return make_key(files, point, entry.spec, entry.options()), files
 
@@ -343,7 +343,7 @@ def meets(verdict: str, require: str, expect: str) -> int:
         if verdict in ("proven", "exhaustive"):
             return 1  # the manifest says broken; an engine established it is correct
         return 3
-    from verify.result import Require, Verdict, exit_code
+    from verify.model.result import Require, Verdict, exit_code
     return exit_code(Verdict(verdict), Require(require))
 
 
@@ -397,7 +397,7 @@ def manifest_fault(e: InputError) -> tuple[str, str] | None:
     """(manifest key, what is wrong) when a check failed on a value the entry's manifest gave
     (its spec, a parameter name, a define, the top module...) rather than in a design file."""
     from verify.errors import SpecError
-    option = getattr(e, "option", None)  # set by the Verilog reader (verify.formats.verilog)
+    option = getattr(e, "option", None)  # set by the Verilog reader (verify.formats.verilog.reader)
     if option in _OPTION_KEYS:
         return _OPTION_KEYS[option], getattr(e, "detail", None) or e.message
     if isinstance(e, SpecError) or e.where == "spec":
@@ -429,13 +429,13 @@ def _forget_stale_trees(entry: Entry, root: Path) -> None:
     if not any(Path(f).suffix in _VERILOG for f in entry.files):
         return
     try:
-        from verify.formats import verilog as reader
+        from verify.formats.verilog import reader
     except ImportError:  # pragma: no cover - no Verilog reader in this build
         return
     trees = getattr(reader, "_TREE_CACHE", None)
     if not isinstance(trees, dict):
         return
-    from verify.cache import file_hashes
+    from verify.manifest.cache import file_hashes
     ident = tuple(str((root / f).resolve()) for f in entry.files)
     now = file_hashes(entry_files(entry, root), root)
     if _SEEN_DEPS.get(ident) != now:  # first sight (trees of unknown age) or a changed file
@@ -508,7 +508,7 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
     time taken, never the results. ``only`` limits the run to the named entries, ``point`` to one
     parameter point of them.
     """
-    from verify.cache import CACHE_DIR, Cache
+    from verify.manifest.cache import CACHE_DIR, Cache
 
     started = time.perf_counter()
     if not isinstance(manifest, Manifest):

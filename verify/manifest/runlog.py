@@ -9,7 +9,7 @@ from pathlib import Path
 from typing import Iterable
 
 from verify import __version__
-from verify.result import CheckResult
+from verify.model.result import CheckResult
 
 
 def file_hashes(paths: Iterable[str | Path]) -> dict[str, str]:

@@ -26,9 +26,9 @@ import random
 from dataclasses import dataclass, field
 from typing import Mapping, Sequence
 
-from verify.diagnose_model import AdderModel, Table, detect, table
+from verify.diagnosis.reference import AdderModel, Table, detect, table
 from verify.errors import InputError
-from verify.netlist import CONST0, CONST1, Netlist
+from verify.model.netlist import CONST0, CONST1, Netlist
 from verify.sim import Simulator, pack
 
 #: vectors simulated for a diagnosis (the counterexample and its neighbours come on top)

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from typing import Iterable, Mapping
 
-from verify.netlist import CONSTANTS, Netlist
+from verify.model.netlist import CONSTANTS, Netlist
 
 
 def _q(text: str) -> str:

@@ -1,6 +1,6 @@
 """``verify explain``: one input vector through the design, bit by bit, and where it goes wrong.
 
-``register(cli)`` adds the command to the main click group (verify.cli).
+``register(cli)`` adds the command to the main click group (verify.cli.main).
 
 Exit codes: 0 the vector gives the outputs the spec expects, 1 it does not, 2 bad input; without
 ``--input`` the design is checked first (as ``verify check`` does) and its counterexample is
@@ -60,11 +60,11 @@ def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top_
 
 def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, top_module, params,
              include_dirs, defines, as_json) -> int:
-    from verify import diagnose
+    from verify.diagnosis import explain as diagnose
     from verify.check import check, resolve_spec
-    from verify.cli import check_report_paths, parse_defines, parse_params
+    from verify.cli.main import check_report_paths, parse_defines, parse_params
     from verify.formats import load
-    from verify.reports import render_text as check_text
+    from verify.render.text import render_text as check_text
 
     check_report_paths(vcd_path, dot_path)
     point = {}
@@ -108,7 +108,7 @@ def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, to
             out["check"] = checked.to_json()
         click.echo(json.dumps(out, indent=2))
         return code
-    from verify.result import Counterexample
+    from verify.model.result import Counterexample
 
     cex = Counterexample(full, {p.name: expected[p.name] for p in design.outputs},
                          {p.name: actual[p.name] for p in design.outputs})

@@ -18,7 +18,7 @@ from pathlib import Path
 from typing import Mapping, Sequence
 
 from verify.errors import InputError
-from verify.netlist import Netlist
+from verify.model.netlist import Netlist
 
 _TREE_CACHE: dict[tuple, list] = {}
 _TREE_CACHE_MAX = 16
@@ -208,7 +208,7 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
          defines: dict[str, str | None] | None = None) -> Netlist:
     """Elaborate the Verilog files and translate the top module into a validated Netlist."""
     pyslang = _import_pyslang()
-    from verify.formats.verilog_translate import Translator
+    from verify.formats.verilog.translate import Translator
     paths = [Path(p) for p in paths]
     params = dict(params or {})
     sm, trees = _parse(pyslang, paths, list(include_dirs or []), dict(defines or {}))

@@ -21,9 +21,9 @@ import re
 
 from pyslang import ast
 
-from verify.builder import GateBuilder
+from verify.model.builder import GateBuilder
 from verify.errors import InputError, NetlistError
-from verify.netlist import CONST0, CONST1, Gate, Port, bit_name
+from verify.model.netlist import CONST0, CONST1, Gate, Port, bit_name
 
 EK = ast.ExpressionKind
 SK = ast.SymbolKind

@@ -17,7 +17,7 @@ from verify import __version__
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT
 from verify.errors import InputError
 from verify.formats import VERILOG_SUFFIXES
-from verify.result import Verdict, worst_exit_code
+from verify.model.result import Verdict, worst_exit_code
 
 ENGINES = ("auto", "exhaustive", "smt", "random")
 
@@ -100,7 +100,7 @@ def parse_shard(text: str | None) -> tuple[int, int] | None:
 
 def check_report_paths(vcd_path: str | None, dot_path: str | None) -> None:
     """Refuse a waveform or picture path that may not be written, before any work is done."""
-    from verify.outputs import can_write
+    from verify.files import can_write
     if vcd_path:
         can_write(vcd_path, what="waveform", replace_reports=True, kind="vcd")
     if dot_path:
@@ -180,7 +180,8 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
               params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
               no_diagnose):
     """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
-    from verify import diagnose, logbook
+    from verify.diagnosis import explain as diagnose
+    from verify.manifest import runlog as logbook
     from verify.check import check, resolve_spec
     from verify.formats import load
 
@@ -246,7 +247,7 @@ def _input_error(e: InputError, as_json: bool) -> int:
 
 
 def _report(runs, as_json: bool, several: bool) -> int:
-    from verify import reports
+    from verify.render import text as reports
 
     codes = []
     if as_json:
@@ -307,8 +308,9 @@ def summary_table(runs) -> str:
 @verilog_options
 def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
     """Write any loaded design as structural Verilog or as a JSON netlist."""
-    from verify.formats import json_netlist, load, verilog_writer
-    from verify.outputs import write_text
+    from verify.formats import json_netlist, load
+    from verify.formats.verilog import writer as verilog_writer
+    from verify.files import write_text
 
     point = parse_params(params)
     if any(len(v) > 1 for v in point.values()):
@@ -326,7 +328,9 @@ def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
 
 # ---- the other commands, each in the module of its concern ---------------------------------
 def _register_commands() -> None:
-    from verify import cli_diagnose, cli_gate, cli_library
+    from verify.cli import explain as cli_diagnose
+    from verify.cli import run as cli_gate
+    from verify.cli import library as cli_library
     for module in (cli_library, cli_diagnose, cli_gate):
         module.register(cli)
 

@@ -17,7 +17,7 @@
 
 Counting rules: ``buf`` gates (plain connections) and constants add no level; every other gate
 adds one, whatever its number of inputs. Prefix nodes are recognised by the gate sources the
-generator writes (``"prefix level L node G[i:j]"``, see ``verify.architectures``), which a JSON
+generator writes (``"prefix level L node G[i:j]"``, see ``verify.library.architectures``), which a JSON
 netlist keeps. Where those sources are missing (a design read back from Verilog) but the nets keep
 the generator's names (``G_i_j``, ``G_i_j_t``, ``P_i_j``), nodes are grouped by name; the rows are
 then not known and ``prefix_levels`` is the longest chain of nodes.
@@ -28,7 +28,7 @@ from __future__ import annotations
 import re
 from typing import Any
 
-from verify.netlist import CONSTANTS, Netlist
+from verify.model.netlist import CONSTANTS, Netlist
 
 _NO_LEVEL = {"buf", "const0", "const1"}
 _PREFIX_SRC = re.compile(r"^prefix level (?P<level>\d+) node G\[(?P<hi>\d+):(?P<lo>\d+)\]$")

@@ -28,7 +28,7 @@ import random
 from dataclasses import dataclass, field
 from typing import Mapping
 
-from verify.netlist import Netlist, bit_name
+from verify.model.netlist import Netlist, bit_name
 
 
 @dataclass(frozen=True)

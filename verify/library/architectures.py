@@ -14,7 +14,7 @@ out), ``G_7_4``/``P_7_4`` (group generate/propagate of bits 7..4).
 Prefix adders (``serial-prefix``, ``sklansky``, ``kogge-stone``, ``brent-kung``, ``han-carlson``,
 ``ladner-fischer``): every gate of a prefix node has the source ``"prefix level L node G[i:j]"``
 where ``L`` is the row of the published drawing the node sits in (rows without a node are left
-out) and ``[i:j]`` is the span it produces. ``verify.stats`` reads these sources. Counting
+out) and ``[i:j]`` is the span it produces. ``verify.library.shape`` reads these sources. Counting
 convention: the carry-in is folded into bit 0 before the network (``g0_cin = g0 | p0 & cin``,
 source ``"carry-in folded into g0"``, not a prefix node), so the network always has ``width``
 positions and ``G_i_0`` is the carry into bit ``i+1`` (with the carry-in, where there is one).
@@ -30,9 +30,9 @@ from dataclasses import dataclass
 from math import ceil, log2
 from typing import Any, Callable, Iterator, Sequence
 
-from verify.builder import GateBuilder
+from verify.model.builder import GateBuilder
 from verify.errors import InputError
-from verify.netlist import Netlist, Port, bit_name
+from verify.model.netlist import Netlist, Port, bit_name
 
 PREFIX_SOURCE = "prefix level {level} node G[{hi}:{lo}]"
 CIN_FOLD_SOURCE = "carry-in folded into g0"

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from verify.result import SCOPE_NOTE, CheckResult, Verdict
+from verify.model.result import SCOPE_NOTE, CheckResult, Verdict
 
 _VERDICT_WORD = {
     Verdict.PROVEN: "PROVEN",

@@ -1,8 +1,8 @@
 """Reports of a manifest run (``verify run``): a terminal table, JUnit XML, a JSON summary and a
 Markdown summary short enough for a pull-request comment.
 
-Every function takes a ``verify.gate.RunSummary``; a record is one entry at one parameter point
-(see ``verify.gate.check_entry`` for its fields).
+Every function takes a ``verify.manifest.runner.RunSummary``; a record is one entry at one parameter point
+(see ``verify.manifest.runner.check_entry`` for its fields).
 """
 
 from __future__ import annotations
@@ -12,7 +12,7 @@ import re
 import xml.etree.ElementTree as ET
 from typing import Any
 
-from verify.result import SCOPE_NOTE
+from verify.model.result import SCOPE_NOTE
 
 JSON_FORMAT = "verify-run/1"
 #: the Markdown summary lists every row up to this many; past it, only rows that need attention

@@ -8,8 +8,8 @@ For the lead's ``verify check`` (after shrinking)::
     lines = diagnose.render_text(design, spec, result.counterexample, findings)
 
 ``explain(design, spec, inputs)`` does the same for one input vector of the user's choosing (it
-may pass). How suspects are found and ranked: ``verify.diagnose_locate``; the reference functions
-of addition: ``verify.diagnose_model``. A diagnosis is advice, never a verdict: the verdict is the
+may pass). How suspects are found and ranked: ``verify.diagnosis.suspects``; the reference functions
+of addition: ``verify.diagnosis.reference``. A diagnosis is advice, never a verdict: the verdict is the
 engines' (the counterexample was re-simulated and re-evaluated before it got here).
 """
 
@@ -21,12 +21,12 @@ import subprocess
 from pathlib import Path
 from typing import Any, Mapping
 
-from verify.diagnose_locate import DEFAULT_VECTORS, Analysis, analyse
-from verify.diagnose_model import AdderModel
+from verify.diagnosis.suspects import DEFAULT_VECTORS, Analysis, analyse
+from verify.diagnosis.reference import AdderModel
 from verify.errors import InputError
-from verify.outputs import write_text
-from verify.netlist import CONSTANTS, Netlist
-from verify.result import Counterexample
+from verify.files import write_text
+from verify.model.netlist import CONSTANTS, Netlist
+from verify.model.result import Counterexample
 from verify.sim import values_at
 
 _FILE_LINE = re.compile(r"^(?P<where>\S+:\d+) (?P<inst>\S.*)$")
@@ -461,7 +461,7 @@ def _port_table(design: Netlist, cex: Counterexample) -> list[str]:
 
 def write_waveform(an: Analysis, spec, path: str | Path) -> Path:
     """The counterexample (step 0) and up to MORE_FAILING other failing vectors as a VCD file."""
-    from verify import vcd
+    from verify.render import vcd
 
     picks = [0]
     rest = an.failing & ~1
@@ -484,7 +484,7 @@ def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
 
     Returns (dot path, svg path or None, a note when no SVG was made).
     """
-    from verify.diagnose_dot import cone_dot
+    from verify.render.dot import cone_dot
 
     target = findings.get("first_wrong") or (an.wrong_bits[0] if an.wrong_bits else None)
     if target is None:

@@ -1,5 +1,5 @@
-"""``verify generate`` and ``verify stats``: thin click commands over verify.architectures and
-verify.stats. ``register(main)`` adds them to the main command group."""
+"""``verify generate`` and ``verify stats``: thin click commands over verify.library.architectures and
+verify.library.shape. ``register(main)`` adds them to the main command group."""
 
 from __future__ import annotations
 
@@ -17,7 +17,7 @@ def _fail(e: InputError) -> None:
 
 
 def _architecture_table() -> str:
-    from verify.architectures import ARCHITECTURES, describe_params
+    from verify.library.architectures import ARCHITECTURES, describe_params
     rows = [(name, describe_params(name), a.summary) for name, a in ARCHITECTURES.items()]
     w1 = max(len(r[0]) for r in rows)
     w2 = max(len(r[1]) for r in rows)
@@ -55,7 +55,7 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
                        err=True)
             raise click.exceptions.Exit(2)
         return
-    from verify.architectures import generate
+    from verify.library.architectures import generate
     try:
         if width is None:
             raise InputError("--width is required (operand width in bits)")
@@ -69,10 +69,10 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
         from verify.formats.json_netlist import dumps
         text = dumps(netlist)
     else:
-        from verify.formats.verilog_writer import dumps
+        from verify.formats.verilog.writer import dumps
         text = dumps(netlist)
     if output:
-        from verify.outputs import write_text
+        from verify.files import write_text
         try:
             write_text(output, text, what="design", force=force)
         except InputError as e:
@@ -84,9 +84,9 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
 
 def _stats(paths, top, params, include_dirs, defines, as_json):
     """Gate counts, logic depth, the longest path, fanout and prefix nodes of a design."""
-    from verify.cli import parse_defines, parse_params
+    from verify.cli.main import parse_defines, parse_params
     from verify.formats import load
-    from verify.stats import format_text, stats
+    from verify.library.shape import format_text, stats
     try:
         point = parse_params(params)
         swept = sorted(name for name, values in point.items() if len(values) > 1)
@@ -109,10 +109,10 @@ _STATS_CMD: click.Command | None = None
 
 def stats_command() -> click.Command:
     """The ``stats`` command, built on first use: its Verilog options (--top, --param, -I, -D)
-    are the shared ones of verify.cli, which imports this module, so they are fetched late."""
+    are the shared ones of verify.cli.main, which imports this module, so they are fetched late."""
     global _STATS_CMD
     if _STATS_CMD is None:
-        from verify.cli import verilog_options  # (may register this module first: look again)
+        from verify.cli.main import verilog_options  # (may register this module first: look again)
     if _STATS_CMD is None:
         cmd = click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")(_stats)
         cmd = verilog_options(cmd)
