@@ -16,38 +16,9 @@ from functools import lru_cache
 from typing import Mapping, Sequence
 
 from verify.model.netlist import CONST0, CONST1, Netlist, Port
+from verify.model.ops import OPS
 
 Word = int  # or a numpy uint64 array
-
-
-def _gate_expr(op: str, a: list[str]) -> str:
-    if op == "and":
-        return " & ".join(a)
-    if op == "or":
-        return " | ".join(a)
-    if op == "xor":
-        return " ^ ".join(a)
-    if op == "nand":
-        return f"({' & '.join(a)}) ^ M"
-    if op == "nor":
-        return f"({' | '.join(a)}) ^ M"
-    if op == "xnor":
-        return f"({' ^ '.join(a)}) ^ M"
-    if op == "not":
-        return f"{a[0]} ^ M"
-    if op == "buf":
-        return a[0]
-    if op == "mux":  # sel ? d1 : d0
-        s, d0, d1 = a
-        return f"{d0} ^ ({s} & ({d0} ^ {d1}))"
-    if op == "maj":
-        x, y, z = a
-        return f"({x} & {y}) | ({z} & ({x} | {y}))"
-    if op == "const0":
-        return "0"
-    if op == "const1":
-        return "M"
-    raise ValueError(f"unknown op {op}")  # pragma: no cover - validate() rejects it
 
 
 def emit(netlist: Netlist, tag: str, inputs: Mapping[str, str]) -> tuple[list[str], dict[str, str]]:
@@ -59,7 +30,7 @@ def emit(netlist: Netlist, tag: str, inputs: Mapping[str, str]) -> tuple[list[st
     lines = []
     for k, g in enumerate(netlist.ordered_gates):
         v = f"{tag}{k}"
-        lines.append(f"    {v} = {_gate_expr(g.op, [var[i] for i in g.inputs])}")
+        lines.append(f"    {v} = {OPS[g.op].word([var[i] for i in g.inputs])}")
         var[g.output] = v
     return lines, var
 

@@ -28,6 +28,7 @@ from typing import Mapping, Sequence
 
 from verify.diagnosis.reference import AdderModel, Table, detect, table
 from verify.errors import InputError
+from verify.model.ops import OPS
 from verify.model.netlist import CONST0, CONST1, Netlist
 from verify.sim import Simulator, pack
 
@@ -41,36 +42,7 @@ def _popcount(x: int) -> int:
 
 
 def _eval(op: str, xs: Sequence[int], M: int) -> int:
-    if op == "and" or op == "nand":
-        r = xs[0]
-        for x in xs[1:]:
-            r &= x
-        return r ^ M if op == "nand" else r
-    if op == "or" or op == "nor":
-        r = xs[0]
-        for x in xs[1:]:
-            r |= x
-        return r ^ M if op == "nor" else r
-    if op == "xor" or op == "xnor":
-        r = xs[0]
-        for x in xs[1:]:
-            r ^= x
-        return r ^ M if op == "xnor" else r
-    if op == "not":
-        return xs[0] ^ M
-    if op == "buf":
-        return xs[0]
-    if op == "mux":
-        s, d0, d1 = xs
-        return d0 ^ (s & (d0 ^ d1))
-    if op == "maj":
-        x, y, z = xs
-        return (x & y) | (z & (x | y))
-    if op == "const0":
-        return 0
-    if op == "const1":
-        return M
-    raise ValueError(f"unknown op {op}")  # pragma: no cover - validate() rejects it
+    return OPS[op].evaluate(xs, M)
 
 
 @dataclass

@@ -14,6 +14,7 @@ import z3
 
 from verify.engines import Options, confirmed
 from verify.model.netlist import CONST0, CONST1, Netlist
+from verify.model.ops import OPS
 from verify.model.result import EngineOutcome
 
 
@@ -26,48 +27,12 @@ def design_terms(design: Netlist, inputs: dict[str, z3.BitVecRef]) -> dict[str, 
             term[b] = z3.Extract(i, i, inputs[p.name]) == one
     for g in design.ordered_gates:
         a = [term[i] for i in g.inputs]
-        term[g.output] = _gate(g.op, a)
+        term[g.output] = OPS[g.op].z3(a)
     outs = {}
     for p in design.outputs:
         bits = [z3.If(term[b], one, z3.BitVecVal(0, 1)) for b in reversed(p.bits)]
         outs[p.name] = bits[0] if len(bits) == 1 else z3.Concat(*bits)
     return outs
-
-
-def _xor(a):
-    acc = a[0]
-    for x in a[1:]:
-        acc = z3.Xor(acc, x)
-    return acc
-
-
-def _gate(op: str, a: list):
-    if op == "and":
-        return z3.And(*a)
-    if op == "or":
-        return z3.Or(*a)
-    if op == "xor":
-        return _xor(a)
-    if op == "nand":
-        return z3.Not(z3.And(*a))
-    if op == "nor":
-        return z3.Not(z3.Or(*a))
-    if op == "xnor":
-        return z3.Not(_xor(a))
-    if op == "not":
-        return z3.Not(a[0])
-    if op == "buf":
-        return a[0]
-    if op == "mux":
-        return z3.If(a[0], a[2], a[1])
-    if op == "maj":
-        x, y, w = a
-        return z3.Or(z3.And(x, y), z3.And(w, z3.Or(x, y)))
-    if op == "const0":
-        return z3.BoolVal(False)
-    if op == "const1":
-        return z3.BoolVal(True)
-    raise ValueError(f"unknown op {op}")  # pragma: no cover
 
 
 def run(design, spec, options: Options) -> EngineOutcome:

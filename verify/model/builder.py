@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from typing import Iterable, Mapping, Sequence
 
+from verify.model.ops import OPS
 from verify.model.netlist import CONST0, CONST1, Gate, Netlist, Port
 
 Word = list[str]
@@ -98,10 +99,8 @@ class GateBuilder:
             if g is not None and g.op == "not":
                 return g.inputs[0]
             return None
-        if op == "const0":
-            return CONST0
-        if op == "const1":
-            return CONST1
+        if all(i in consts for i in ins):  # every input known: the table gives the value
+            return CONST1 if OPS[op].bit([int(i == CONST1) for i in ins]) else CONST0
         if op in ("and", "or", "xor") and len(ins) == 2:
             a, b = ins
             if op == "and":

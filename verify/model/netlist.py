@@ -7,30 +7,13 @@ Nets are strings. Bit ``i`` of a port ``p`` is the net ``p[i]`` (bit 0 is the le
 a 1-bit port's only bit is the bare name ``p``. The nets ``"0"`` and ``"1"`` are the constants.
 Any other net is the output of exactly one gate.
 
-Gate ops (every gate has exactly one output bit):
-
-=========  ============  =======================================================
-op         inputs        output
-=========  ============  =======================================================
-and        2 or more     1 when every input is 1
-or         2 or more     1 when any input is 1
-xor        2 or more     1 when an odd number of inputs are 1
-nand       2 or more     not and
-nor        2 or more     not or
-xnor       2 or more     not xor
-not        1             the inverted input
-buf        1             the input (a plain connection)
-mux        3: sel,d0,d1  d1 when sel is 1, else d0
-maj        3             1 when at least two inputs are 1
-const0     0             0
-const1     0             1
-=========  ============  =======================================================
+Gate ops and what each means: ``verify.model.ops.OPS``, the one table. Graph walks (order, loops,
+cones, depth): ``verify.model.graph``.
 """
 
 from __future__ import annotations
 
 import hashlib
-import heapq
 import json
 import re
 from dataclasses import dataclass, field
@@ -38,22 +21,9 @@ from functools import cached_property
 from typing import Iterable, Mapping
 
 from verify.errors import NetlistError
+from verify.model.graph import describe_loop, topological
+from verify.model.ops import OPS, arity_text
 
-#: op -> (fewest inputs, most inputs or None for no limit)
-OPS: dict[str, tuple[int, int | None]] = {
-    "and": (2, None),
-    "or": (2, None),
-    "xor": (2, None),
-    "nand": (2, None),
-    "nor": (2, None),
-    "xnor": (2, None),
-    "not": (1, 1),
-    "buf": (1, 1),
-    "mux": (3, 3),
-    "maj": (3, 3),
-    "const0": (0, 0),
-    "const1": (0, 0),
-}
 
 #: the widest port accepted: far past any adder, and small enough that a typo is not a hang
 MAX_PORT_WIDTH = 1 << 16
@@ -139,9 +109,9 @@ class Netlist:
     @cached_property
     def ordered_gates(self) -> tuple[Gate, ...]:
         """Gates in an order where every gate comes after the gates driving its inputs."""
-        order, leftover = _topological(self.gates, set(self.input_bits) | set(CONSTANTS))
+        order, leftover = topological(self.gates, set(self.input_bits) | set(CONSTANTS))
         if leftover:
-            raise NetlistError(_describe_loop(leftover), self.origin)
+            raise NetlistError(describe_loop(leftover), self.origin)
         return tuple(order)
 
     @cached_property
@@ -224,11 +194,10 @@ class Netlist:
             if g.op not in OPS:
                 yield f"{label}: unknown op '{g.op}' (known: {', '.join(OPS)})"
             else:
-                lo, hi = OPS[g.op]
-                n = len(g.inputs)
-                if n < lo or (hi is not None and n > hi):
-                    want = str(lo) if lo == hi else f"at least {lo}"
-                    yield f"{label}: op '{g.op}' takes {want} input{'s' if lo != 1 else ''}, got {n}"
+                op, n = OPS[g.op], len(g.inputs)
+                if not op.arity_ok(n):
+                    yield (f"{label}: op '{g.op}' takes {arity_text(op)} "
+                           f"input{'s' if op.min_inputs != 1 else ''}, got {n}")
             if g.output in CONSTANTS:
                 yield f"{label}: a gate cannot drive the constant '{g.output}'"
             elif g.output in input_bits:
@@ -281,54 +250,3 @@ def canonical_ref(ref: str, ports: Mapping[str, int]) -> str:
     if m and ports.get(m["name"]) == 1 and int(m["index"]) == 0:
         return m["name"]
     return ref
-
-
-def _topological(gates: Iterable[Gate], ready: set[str]) -> tuple[list[Gate], list[Gate]]:
-    """Kahn's algorithm over nets. Returns (ordered gates, gates left on or behind a loop).
-
-    Ready gates are taken lowest index first, so a list already in order keeps its order.
-    """
-    gates = list(gates)
-    waiting: dict[str, list[int]] = {}
-    missing = [0] * len(gates)
-    queue: list[int] = []
-    for i, g in enumerate(gates):
-        pending = {n for n in g.inputs if n not in ready}
-        missing[i] = len(pending)
-        for n in pending:
-            waiting.setdefault(n, []).append(i)
-        if not pending:
-            queue.append(i)
-    heapq.heapify(queue)
-    order: list[Gate] = []
-    while queue:
-        i = heapq.heappop(queue)
-        g = gates[i]
-        order.append(g)
-        for j in waiting.pop(g.output, ()):
-            missing[j] -= 1
-            if missing[j] == 0:
-                heapq.heappush(queue, j)
-    placed = {id(g) for g in order}
-    return order, [g for g in gates if id(g) not in placed]
-
-
-def _describe_loop(stuck: list[Gate]) -> str:
-    """Find one cycle among the gates that could not be ordered and print it."""
-    driver = {g.output: g for g in stuck}
-    start = stuck[0].output
-    path: list[str] = []
-    index: dict[str, int] = {}
-    net = start
-    while net not in index:
-        index[net] = len(path)
-        path.append(net)
-        g = driver[net]
-        net = next((n for n in g.inputs if n in driver), None)
-        if net is None:  # pragma: no cover - every stuck gate waits on another stuck gate
-            break
-    cycle = path[index[net]:] + [net] if net is not None else path
-    sources = [driver[n].source for n in cycle[:-1] if driver[n].source]
-    where = f" ({'; '.join(dict.fromkeys(sources))})" if sources else ""
-    # the walk followed inputs backwards; print it in the direction the signal flows
-    return f"combinational loop: {' -> '.join(reversed(cycle))}{where}"

@@ -10,28 +10,12 @@ from __future__ import annotations
 
 from typing import Iterable, Mapping
 
+from verify.model.graph import cone
 from verify.model.netlist import CONSTANTS, Netlist
 
 
 def _q(text: str) -> str:
     return '"' + text.replace("\\", "\\\\").replace('"', '\\"') + '"'
-
-
-def cone(design: Netlist, target: str) -> list[str]:
-    """Nets in the fan-in of ``target`` (itself included), inputs first, in topological order."""
-    want: set[str] = set()
-    stack = [target]
-    while stack:
-        n = stack.pop()
-        if n in want or n in CONSTANTS:
-            continue
-        want.add(n)
-        g = design.driver.get(n)
-        if g is not None:
-            stack.extend(g.inputs)
-    order = [b for b in design.input_bits if b in want]
-    order += [g.output for g in design.ordered_gates if g.output in want]
-    return order
 
 
 def cone_dot(design: Netlist, target: str, suspects: Iterable[str] = (),

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import re
 
+from verify.model.ops import OPS
 from verify.model.netlist import CONST0, CONST1, Netlist
 
 _IDENT = re.compile(r"^[A-Za-z_][A-Za-z0-9_$]*$")
@@ -53,17 +54,8 @@ def dumps(netlist: Netlist, module: str | None = None) -> str:
         if g.op in _PRIMITIVES:
             counts[g.op] = counts.get(g.op, 0) + 1
             lines.append(f"  {g.op} g_{g.op}_{counts[g.op]} ({out}, {', '.join(ins)});")
-        elif g.op == "mux":
-            lines.append(f"  assign {out} = {ins[0]} ? {ins[2]} : {ins[1]};")
-        elif g.op == "maj":
-            a, b, c = ins
-            lines.append(f"  assign {out} = ({a} & {b}) | ({a} & {c}) | ({b} & {c});")
-        elif g.op == "const0":
-            lines.append(f"  assign {out} = 1'b0;")
-        elif g.op == "const1":
-            lines.append(f"  assign {out} = 1'b1;")
-        else:  # pragma: no cover - validate() rejects unknown ops
-            raise ValueError(f"cannot write op {g.op}")
+        else:
+            lines.append(f"  assign {out} = {OPS[g.op].verilog(ins)};")
     lines.append("endmodule")
     return "\n".join(lines) + "\n"
 

@@ -1,0 +1,180 @@
+"""The one table of gate ops: what each op means, everywhere the project needs it.
+
+Every gate has one output bit. The simulator, every engine, the builder's folding, the Verilog
+writer and the diagnosis draw an op's meaning from ``OPS`` and nowhere else, so adding an op is
+adding one row here.
+
+=========  ============  =======================================================
+op         inputs        output
+=========  ============  =======================================================
+and        2 or more     1 when every input is 1
+or         2 or more     1 when any input is 1
+xor        2 or more     1 when an odd number of inputs are 1
+nand       2 or more     not and
+nor        2 or more     not or
+xnor       2 or more     not xor
+not        1             the inverted input
+buf        1             the input (a plain connection)
+mux        3: sel,d0,d1  d1 when sel is 1, else d0
+maj        3             1 when at least two inputs are 1
+const0     0             0
+const1     0             1
+=========  ============  =======================================================
+
+Each row gives the op's meaning in five forms:
+
+- ``word(args)``: Python source over *words* (bit j of a word is the value in vector j); ``M`` is
+  the all-ones mask of a word, so ``not x`` is ``x ^ M``. The same source serves Python integers
+  and numpy ``uint64`` arrays.
+- ``bit(values)``: the value on one vector of 0/1 integers (derived from ``word`` with ``M = 1``).
+- ``z3(args)``: a z3 Boolean term of z3 Boolean terms.
+- ``verilog(args)``: a Verilog expression of net expressions.
+- ``clauses(out, args, fresh)``: CNF clauses (lists of non-zero ints, DIMACS style) that hold
+  exactly when the literal ``out`` equals the op of the literals ``args`` (the Tseitin encoding);
+  ``fresh()`` hands out new variable numbers (only XOR/XNOR of three or more inputs need them).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import reduce
+from typing import Callable, Sequence
+
+
+@dataclass(frozen=True)
+class Op:
+    name: str
+    min_inputs: int
+    max_inputs: int | None  # None: no limit
+    word: Callable[[Sequence[str]], str]
+    z3: Callable[[Sequence], object]
+    verilog: Callable[[Sequence[str]], str]
+    clauses: Callable[..., list[list[int]]]
+    #: the value that, on any one input, fixes the output whatever the others are (and: 0,
+    #: or: 1); None where no single input decides (xor, mux, maj, not, buf)
+    controlling: int | None = None
+    #: the output when an input is at its controlling value (and: 0, nand: 1)
+    controlled: int | None = None
+
+    def arity_ok(self, n: int) -> bool:
+        return n >= self.min_inputs and (self.max_inputs is None or n <= self.max_inputs)
+
+    def evaluate(self, words: Sequence, mask) -> object:
+        """The output word for input words (Python ints or numpy arrays), ``mask`` all ones."""
+        return _word_function(self.name, len(words))(*words, mask)
+
+    def bit(self, values: Sequence[int]) -> int:
+        """The output for one vector of 0/1 inputs."""
+        return self.evaluate(values, 1) & 1
+
+
+def _join(sym: str, a: Sequence[str]) -> str:
+    return f" {sym} ".join(a)
+
+
+def _z3():
+    import z3
+    return z3
+
+
+def _z3_xor(a):
+    z3 = _z3()
+    return reduce(z3.Xor, a)
+
+
+# ---- CNF (Tseitin) ---------------------------------------------------------------------------
+
+def _and_cnf(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
+    return [[-o, x] for x in a] + [[o, *(-x for x in a)]]
+
+
+def _or_cnf(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
+    return [[o, -x] for x in a] + [[-o, *a]]
+
+
+def _xor2_cnf(o: int, x: int, y: int) -> list[list[int]]:
+    return [[-o, x, y], [-o, -x, -y], [o, -x, y], [o, x, -y]]
+
+
+def _xor_cnf(o: int, a: Sequence[int], fresh: Callable[[], int]) -> list[list[int]]:
+    """A chain of two-input XORs through fresh variables (linear, not 2^n clauses)."""
+    out: list[list[int]] = []
+    acc = a[0]
+    for k, x in enumerate(a[1:]):
+        t = o if k == len(a) - 2 else fresh()
+        out += _xor2_cnf(t, acc, x)
+        acc = t
+    return out
+
+
+def _negated(cnf: Callable[..., list[list[int]]]):
+    def clauses(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
+        return cnf(-o, a, fresh)
+    return clauses
+
+
+def _mux_cnf(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
+    s, d0, d1 = a
+    return [[s, -d0, o], [s, d0, -o], [-s, -d1, o], [-s, d1, -o],
+            [-d0, -d1, o], [d0, d1, -o]]  # the last two are redundant but help propagation
+
+
+def _maj_cnf(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
+    x, y, z = a
+    return [[-x, -y, o], [-x, -z, o], [-y, -z, o], [x, y, -o], [x, z, -o], [y, z, -o]]
+
+
+def _xor_clauses(o: int, a: Sequence[int], fresh: Callable[[], int]) -> list[list[int]]:
+    if len(a) == 2:
+        return _xor2_cnf(o, a[0], a[1])
+    return _xor_cnf(o, a, fresh)
+
+
+def _same(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
+    return [[-o, a[0]], [o, -a[0]]]
+
+
+OPS: dict[str, Op] = {op.name: op for op in (
+    Op("and", 2, None, lambda a: _join("&", a), lambda a: _z3().And(*a),
+       lambda a: _join("&", a), _and_cnf, controlling=0, controlled=0),
+    Op("or", 2, None, lambda a: _join("|", a), lambda a: _z3().Or(*a),
+       lambda a: _join("|", a), _or_cnf, controlling=1, controlled=1),
+    Op("xor", 2, None, lambda a: _join("^", a), _z3_xor, lambda a: _join("^", a), _xor_clauses),
+    Op("nand", 2, None, lambda a: f"({_join('&', a)}) ^ M", lambda a: _z3().Not(_z3().And(*a)),
+       lambda a: f"~({_join('&', a)})", _negated(_and_cnf), controlling=0, controlled=1),
+    Op("nor", 2, None, lambda a: f"({_join('|', a)}) ^ M", lambda a: _z3().Not(_z3().Or(*a)),
+       lambda a: f"~({_join('|', a)})", _negated(_or_cnf), controlling=1, controlled=0),
+    Op("xnor", 2, None, lambda a: f"({_join('^', a)}) ^ M", lambda a: _z3().Not(_z3_xor(a)),
+       lambda a: f"~({_join('^', a)})", _negated(_xor_clauses)),
+    Op("not", 1, 1, lambda a: f"{a[0]} ^ M", lambda a: _z3().Not(a[0]), lambda a: f"~{a[0]}",
+       lambda o, a, fresh=None: _same(-o, a)),
+    Op("buf", 1, 1, lambda a: a[0], lambda a: a[0], lambda a: a[0], _same),
+    Op("mux", 3, 3, lambda a: f"{a[1]} ^ ({a[0]} & ({a[1]} ^ {a[2]}))",
+       lambda a: _z3().If(a[0], a[2], a[1]), lambda a: f"{a[0]} ? {a[2]} : {a[1]}", _mux_cnf),
+    Op("maj", 3, 3, lambda a: f"({a[0]} & {a[1]}) | ({a[2]} & ({a[0]} | {a[1]}))",
+       lambda a: _z3().Or(_z3().And(a[0], a[1]), _z3().And(a[2], _z3().Or(a[0], a[1]))),
+       lambda a: f"({a[0]} & {a[1]}) | ({a[2]} & ({a[0]} | {a[1]}))", _maj_cnf),
+    Op("const0", 0, 0, lambda a: "0", lambda a: _z3().BoolVal(False), lambda a: "1'b0",
+       lambda o, a, fresh=None: [[-o]]),
+    Op("const1", 0, 0, lambda a: "M", lambda a: _z3().BoolVal(True), lambda a: "1'b1",
+       lambda o, a, fresh=None: [[o]]),
+)}
+
+
+_COMPILED: dict[tuple[str, int], Callable] = {}
+
+
+def _word_function(name: str, n: int) -> Callable:
+    """``OPS[name].word`` compiled once per op and input count into a function of words and M."""
+    fn = _COMPILED.get((name, n))
+    if fn is None:
+        args = [f"x{k}" for k in range(n)]
+        fn = eval(f"lambda {', '.join(args + ['M'])}: {OPS[name].word(args)}")  # noqa: S307 - our table
+        _COMPILED[(name, n)] = fn
+    return fn
+
+
+def arity_text(op: Op) -> str:
+    if op.min_inputs == op.max_inputs:
+        return str(op.min_inputs)
+    return f"at least {op.min_inputs}"
