@@ -62,7 +62,7 @@ def test_dependencies_follow_includes_and_take_include_folders(tmp_path):
 def test_only_definite_verdicts_are_stored(tmp_path):
     cache = Cache(tmp_path / "c")
     files = {}
-    for verdict in ("proven", "exhaustive", "fail", "tested", "inconclusive", "error"):
+    for verdict in ("proven", "exhaustive", "fail", "tested", "undecided", "error"):
         key = hashlib.sha256(verdict.encode()).hexdigest()
         stored = cache.put(key, files, {"verdict": verdict})
         assert stored == (verdict in CACHEABLE)

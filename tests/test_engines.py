@@ -102,22 +102,22 @@ def test_smt_agrees_with_z3s_own_addition():
     assert smt.run(d, parse(ADD, d), Options()).status == "pass"
 
 
-def test_a_solver_timeout_is_inconclusive_never_a_pass():
+def test_a_solver_timeout_is_undecided_never_a_pass():
     d = array_multiplier(14)
     o = smt.run(d, parse("p = b * a", d), Options(timeout=0.05))
-    assert o.status == "inconclusive"
+    assert o.status == "undecided"
     assert "limit" in o.evidence or "unknown" in o.evidence
     r = verify.check(d, "p = b * a", engine="smt", timeout=0.05)
-    assert r.verdict is Verdict.INCONCLUSIVE and not r.ok and r.exit_code == 3
+    assert r.verdict is Verdict.UNDECIDED and not r.ok and r.exit_code == 3
 
 
-def test_auto_is_inconclusive_when_its_complete_engine_gives_no_answer():
+def test_auto_is_undecided_when_its_complete_engine_gives_no_answer():
     d = array_multiplier(14)  # 28 input bits: over the exhaustive limit below, so auto picks smt
     r = verify.check(d, "p = a * b", timeout=0.05, exhaustive_limit=20)
     assert [e.engine for e in r.engines] == ["random", "smt"]
     # random may itself stop at so short a limit on a loaded machine; it can never pass the design
-    assert r.engines[0].status in ("pass", "inconclusive") and r.engines[1].status == "inconclusive"
-    assert r.verdict is Verdict.INCONCLUSIVE and r.exit_code == 3
+    assert r.engines[0].status in ("pass", "undecided") and r.engines[1].status == "undecided"
+    assert r.verdict is Verdict.UNDECIDED and r.exit_code == 3
 
 
 def test_exhaustive_refuses_a_space_over_its_limit():
@@ -125,7 +125,7 @@ def test_exhaustive_refuses_a_space_over_its_limit():
     o = exhaustive.run(d, parse(ADD, d), Options(exhaustive_limit=20))
     assert o.status == "skipped" and "over the exhaustive limit" in o.evidence
     r = verify.check(d, ADD, engine="exhaustive", exhaustive_limit=20)
-    assert r.verdict is Verdict.INCONCLUSIVE
+    assert r.verdict is Verdict.UNDECIDED
 
 
 def test_exhaustive_finds_a_fault_in_the_last_vector_of_a_chunked_space():

@@ -125,11 +125,11 @@ def test_merge_all_shards_passing_is_exhaustive(shard_files, capsys):
     assert code == 0 and "EXHAUSTIVE" in out
 
 
-def test_merge_missing_shards_is_inconclusive(shard_files, capsys):
+def test_merge_missing_shards_is_undecided(shard_files, capsys):
     files = shard_files(ripple(5), 5)
     code, out, _ = run_cli(capsys, "merge", "--json", files[0], files[2], files[4])
     data = json.loads(out)
-    assert code == 3 and data["verdict"] == "inconclusive"
+    assert code == 3 and data["verdict"] == "undecided"
     assert data["shards"]["missing"] == [2, 4]
 
 

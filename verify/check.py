@@ -9,7 +9,7 @@
 
 ``engine="auto"`` (the default) runs random vectors first, to find a bug fast, then the exhaustive
 engine when the input bits fit its limit, else z3 within the time limit. If that last engine gives
-no answer, the verdict is inconclusive: passing random vectors never stands in for a proof.
+no answer, the verdict is undecided: passing random vectors never stands in for a proof.
 """
 
 from __future__ import annotations
@@ -124,7 +124,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
 
     verdict, cex = combine(outcomes)
     if engine == "auto" and verdict is Verdict.TESTED:
-        verdict = Verdict.INCONCLUSIVE  # the complete engine was asked and gave no answer
+        verdict = Verdict.UNDECIDED  # the complete engine was asked and gave no answer
     extras: dict = {}
     if cex is not None and shrink:
         from verify.engines.shrink import shrink as shrink_cex

@@ -4,7 +4,7 @@
 
 Exit codes: 0 the vector gives the outputs the spec expects, 1 it does not, 2 bad input; without
 ``--input`` the design is checked first (as ``verify check`` does) and its counterexample is
-explained: then the code is the check's (0 meets the spec, 1 fail, 3 inconclusive).
+explained: then the code is the check's (0 meets the spec, 1 fail, 3 undecided).
 """
 
 from __future__ import annotations

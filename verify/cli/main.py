@@ -1,6 +1,6 @@
 """The command line: a thin click layer over the Python API (verify.check, verify.load, ...).
 
-Exit codes: 0 meets the spec, 1 counterexample found, 2 bad input or usage, 3 inconclusive (or only
+Exit codes: 0 meets the spec, 1 counterexample found, 2 bad input or usage, 3 undecided (or only
 tested while --require complete asked for proven or exhaustive).
 """
 
@@ -159,7 +159,7 @@ def verilog_options(f):
 @click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
               "(default 200,000; auto runs 20,000 first).")
 @click.option("--timeout", type=float, default=DEFAULT_TIMEOUT, show_default=True,
-              help="Seconds an engine may take; past it the outcome is inconclusive.")
+              help="Seconds an engine may take; past it the outcome is undecided.")
 @click.option("--require", type=click.Choice(["tested", "complete"]), default="tested",
               show_default=True, help="complete: only proven or exhaustive count as meeting the spec.")
 @click.option("--exhaustive-limit", type=click.IntRange(1, 40), default=DEFAULT_EXHAUSTIVE_BITS,

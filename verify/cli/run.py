@@ -130,7 +130,7 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
     """Check every design of MANIFEST (default ./verify.toml) at every parameter value.
 
     Exit 0 when every entry meets its manifest, 1 when a result contradicts it (a counterexample,
-    or a proof for an entry marked expect = "fail"), 3 when a result is inconclusive or weaker
+    or a proof for an entry marked expect = "fail"), 3 when a result is undecided or weaker
     than its require, 2 for a bad manifest or a design that cannot be read.
     """
     from verify.manifest import runner as gate

@@ -17,7 +17,7 @@ from verify.model.result import Counterexample, EngineOutcome
 DEFAULT_EXHAUSTIVE_BITS = 26
 #: the random engine's default number of vectors
 DEFAULT_VECTORS = 200_000
-#: seconds a solver or a long simulation may take before its outcome is inconclusive
+#: seconds a solver or a long simulation may take before its outcome is undecided
 DEFAULT_TIMEOUT = 60.0
 
 
@@ -62,7 +62,7 @@ def confirmed(engine: str, design: Netlist, spec, inputs: Mapping[str, int]) -> 
 
 def stopped(engine: str, seconds: float, options: Options, done: int, total: int,
             details: dict) -> EngineOutcome:
-    """The outcome of a simulation cut short by the time limit: inconclusive, never a pass."""
-    return EngineOutcome(engine, "inconclusive", seconds,
+    """The outcome of a simulation cut short by the time limit: undecided, never a pass."""
+    return EngineOutcome(engine, "undecided", seconds,
                          f"stopped at the {options.timeout:g} s limit after {done:,} of {total:,} "
                          f"vectors, all matching", vectors=done, details=details)

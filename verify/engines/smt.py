@@ -3,7 +3,7 @@
 The design becomes Boolean formulas, one per gate; the spec becomes z3 word-level bit-vector
 arithmetic (``Spec.to_z3``), an independent statement of the same function. ``unsat`` means no
 such input exists at this width: proven. ``sat`` gives a counterexample from the model, which is
-then re-simulated. A timeout or ``unknown`` is inconclusive, never a pass.
+then re-simulated. A timeout or ``unknown`` is undecided, never a pass.
 """
 
 from __future__ import annotations
@@ -64,4 +64,4 @@ def run(design, spec, options: Options) -> EngineOutcome:
         text = f"z3 gave no answer within the {options.timeout:g} s limit ({reason})"
     else:
         text = f"z3 answered unknown ({reason})"
-    return EngineOutcome("smt", "inconclusive", seconds, text, details=details)
+    return EngineOutcome("smt", "undecided", seconds, text, details=details)

@@ -13,7 +13,7 @@ Each stored record also lists the files and their hashes; a lookup re-hashes the
 record whose files changed (so a stale record is never reported even if two keys collided).
 
 Only definite verdicts are stored: ``proven``, ``exhaustive`` and ``fail`` (a counterexample that
-was re-simulated on the design and re-evaluated on the spec). ``tested``, ``inconclusive`` and
+was re-simulated on the design and re-evaluated on the spec). ``tested``, ``undecided`` and
 errors are always run again. Records live one JSON file per key in ``.verify-cache/`` next to the
 manifest; deleting the folder is always safe.
 """

@@ -23,7 +23,7 @@ design broken on purpose: it meets expectations when a counterexample is found),
 with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
 nothing it rests on changed. Exit code of a run: 2 when any entry could not be read (bad input),
 else 1 when any result contradicts the manifest (a counterexample in a design expected to pass, or
-a proof for one expected to fail), else 3 when any result is inconclusive or weaker than its
+a proof for one expected to fail), else 3 when any result is undecided or weaker than its
 ``require``, else 0.
 """
 
@@ -467,7 +467,7 @@ def status_word(record: dict[str, Any]) -> str:
         return "unexpected pass" if record["expect"] == "fail" else "counterexample"
     if record["verdict"] == "tested":
         return "weaker than required"
-    return "inconclusive"
+    return "undecided"
 
 
 # ---- a whole run --------------------------------------------------------------------------

@@ -8,7 +8,7 @@ gives:
   shards are missing;
 * ``exhaustive`` (exit 0) only when every shard 1..N is present, the parts are exactly the
   expected ranges, they cover every vector once, and every one passed;
-* ``inconclusive`` (exit 3) when shards are missing or one stopped without an answer (timeout).
+* ``undecided`` (exit 3) when shards are missing or one stopped without an answer (timeout).
 
 Shards of different designs (design hash), specs, parameter values or shard counts, a shard given
 twice, parts that overlap or do not match their index, and files that are not shard results are
@@ -60,7 +60,7 @@ def _shard_of(item: Any, where: str) -> dict[str, Any]:
         raise InputError("the result has no design hash or input ports", where)
     # a passing shard is 'tested' (one part of the space); 'exhaustive' only when it is 1 of 1
     if not isinstance(item.get("spec"), str) or item.get("verdict") not in (
-            "tested", "exhaustive", "fail", "inconclusive"):
+            "tested", "exhaustive", "fail", "undecided"):
         raise InputError(f"unexpected verdict {item.get('verdict')!r} for a shard", where)
     engines = [e.get("engine") for e in item.get("engines", []) if isinstance(e, dict)]
     if engines != ["exhaustive"]:
@@ -122,7 +122,7 @@ def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
 
     missing = [k for k in range(1, count + 1) if k not in by_index]
     failed = [(w, s, i) for w, s, i in shards if i["verdict"] == "fail"]
-    unfinished = [(w, s, i) for w, s, i in shards if i["verdict"] == "inconclusive"]
+    unfinished = [(w, s, i) for w, s, i in shards if i["verdict"] == "undecided"]
     covered = sum(s["vectors"] for _, s, i in shards if _passed(i))
 
     if failed:
@@ -131,11 +131,11 @@ def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
         reason = (f"shard {s['index']}/{count} found a counterexample ({len(failed)} of "
                   f"{len(shards)} shards given failed)")
     elif missing:
-        verdict, code = "inconclusive", 3
+        verdict, code = "undecided", 3
         reason = (f"{len(missing)} of {count} shards missing ({_ranges(missing)}): "
                   f"{covered:,} of {total:,} vectors checked")
     elif unfinished:
-        verdict, code = "inconclusive", 3
+        verdict, code = "undecided", 3
         reason = (f"shard{'s' if len(unfinished) > 1 else ''} "
                   f"{', '.join(str(s['index']) for _, s, _ in unfinished)} stopped without an "
                   f"answer: {covered:,} of {total:,} vectors checked")
@@ -154,7 +154,7 @@ def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
         "spec": first["spec"], "params": first.get("params"),
         "shards": {"count": count, "present": sorted(by_index), "missing": missing,
                    "failed": sorted(s["index"] for _, s, _ in failed),
-                   "inconclusive": sorted(s["index"] for _, s, _ in unfinished)},
+                   "undecided": sorted(s["index"] for _, s, _ in unfinished)},
         "vectors": {"total": total, "checked_passing": covered},
         "seconds": round(sum(float(i.get("seconds", 0)) for _, _, i in shards), 6),
         "files": [w for w, _, _ in shards],

@@ -9,12 +9,12 @@ proven        z3 showed no input makes any output differ from the spec (unsat)  
 exhaustive    every combination of every input bit was simulated and matched         0
 tested        N vectors matched; a sample, never a proof                             0 (3 with require=complete)
 fail          a counterexample: an input where some output differs (re-simulated)    1
-inconclusive  no engine established anything (timeout, solver unknown, too large)    3
+undecided  no engine established anything (timeout, solver unknown, too large)    3
 error         bad input: nothing was checked                                         2
 ============  =====================================================================  ====
 
 Engine statuses: ``pass`` (the engine established what its evidence says), ``fail`` (it found a
-counterexample), ``inconclusive`` (it stopped without an answer: timeout, unknown, limit) and
+counterexample), ``undecided`` (it stopped without an answer: timeout, unknown, limit) and
 ``skipped`` (not run, with the reason in its evidence).
 """
 
@@ -30,7 +30,7 @@ class Verdict(str, Enum):
     EXHAUSTIVE = "exhaustive"
     TESTED = "tested"
     FAIL = "fail"
-    INCONCLUSIVE = "inconclusive"
+    UNDECIDED = "undecided"
     ERROR = "error"
 
     def __str__(self) -> str:  # pragma: no cover - trivial
@@ -85,7 +85,7 @@ class EngineOutcome:
     """What one engine established, in one sentence (``evidence``), with its figures."""
 
     engine: str  # exhaustive | smt | random
-    status: str  # pass | fail | inconclusive | skipped
+    status: str  # pass | fail | undecided | skipped
     seconds: float
     evidence: str
     vectors: int | None = None  # how many input vectors were simulated, where that applies
@@ -153,7 +153,7 @@ class CheckResult:
                     f"inputs, not a proof")
         if v is Verdict.FAIL:
             return "counterexample found: the design does not meet the spec"
-        if v is Verdict.INCONCLUSIVE:
+        if v is Verdict.UNDECIDED:
             return "no engine established the spec (see each engine's evidence)"
         return "nothing was checked"
 
@@ -191,7 +191,7 @@ def exit_code(verdict: Verdict, require: Require = Require.TESTED) -> int:
 
 
 def worst_exit_code(codes) -> int:
-    """One exit code for several results: 2 (bad input) over 1 (fail) over 3 (inconclusive)."""
+    """One exit code for several results: 2 (bad input) over 1 (fail) over 3 (undecided)."""
     codes = set(codes)
     for c in (2, 1, 3):
         if c in codes:
@@ -203,7 +203,7 @@ def combine(outcomes: list[EngineOutcome]) -> tuple[Verdict, Counterexample | No
     """The verdict a list of engine outcomes supports: a failure beats all, a proof beats a sample.
 
     An engine that was asked to establish more than a sample and could not (for example smt timing
-    out after random testing passed) leaves the verdict inconclusive: see ``check.check``.
+    out after random testing passed) leaves the verdict undecided: see ``check.check``.
     """
     for e in outcomes:
         if e.status == "fail":
@@ -215,4 +215,4 @@ def combine(outcomes: list[EngineOutcome]) -> tuple[Verdict, Counterexample | No
         return Verdict.EXHAUSTIVE, None
     if "random" in passed:
         return Verdict.TESTED, None
-    return Verdict.INCONCLUSIVE, None
+    return Verdict.UNDECIDED, None

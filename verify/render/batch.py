@@ -19,9 +19,9 @@ JSON_FORMAT = "verify-run/1"
 MARKDOWN_ROWS = 30
 
 _VERDICT_WORD = {"proven": "PROVEN", "exhaustive": "EXHAUSTIVE", "tested": "TESTED",
-                 "fail": "FAIL", "inconclusive": "INCONCLUSIVE", "error": "ERROR"}
+                 "fail": "FAIL", "undecided": "UNDECIDED", "error": "ERROR"}
 _EXIT_MEANING = {0: "every entry met its manifest", 1: "a result contradicts the manifest",
-                 2: "bad input: an entry could not be read", 3: "inconclusive or weaker than required"}
+                 2: "bad input: an entry could not be read", 3: "undecided or weaker than required"}
 
 
 def engines_text(record: dict[str, Any]) -> str:
@@ -77,7 +77,7 @@ def problem_text(record: dict[str, Any]) -> str | None:
 
 def _evidence(record: dict[str, Any]) -> str:
     parts = [f"{e['engine']}: {e['evidence']}" for e in record.get("engines", [])
-             if e.get("status") in ("inconclusive", "skipped")]
+             if e.get("status") in ("undecided", "skipped")]
     return "; ".join(parts) or record.get("coverage", "no engine established the spec")
 
 
@@ -172,7 +172,7 @@ def _x(text: Any) -> str:
 def render_junit(summary, suite_name: str | None = None) -> str:
     """JUnit XML: one test case per design and parameter point.
 
-    A counterexample is a ``failure`` whose message is the counterexample; an inconclusive or
+    A counterexample is a ``failure`` whose message is the counterexample; an undecided or
     weaker-than-required result and an unexpected pass are failures too (the gate is red), with
     their own ``type``; an entry that could not be read is an ``error``.
     """
@@ -197,7 +197,7 @@ def render_junit(summary, suite_name: str | None = None) -> str:
             el.text = _x(problem)
         elif r["exit_code"] in (1, 3):
             kind = {"counterexample": "counterexample", "unexpected pass": "unexpected-pass",
-                    "weaker than required": "weaker-than-required"}.get(status, "inconclusive")
+                    "weaker than required": "weaker-than-required"}.get(status, "undecided")
             message = counterexample_text(r) if status == "counterexample" else problem
             el = ET.SubElement(case, "failure", type=kind, message=_x(message))
             el.text = _x(_details(r))

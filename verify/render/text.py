@@ -11,7 +11,7 @@ _VERDICT_WORD = {
     Verdict.EXHAUSTIVE: "EXHAUSTIVE",
     Verdict.TESTED: "TESTED",
     Verdict.FAIL: "FAIL",
-    Verdict.INCONCLUSIVE: "INCONCLUSIVE",
+    Verdict.UNDECIDED: "UNDECIDED",
     Verdict.ERROR: "ERROR",
 }
 
