@@ -1,4 +1,4 @@
-"""The result cache of 'verify run': keys, dependencies, hits, misses and what is never stored."""
+"""The result cache of 'adder-verify run': keys, dependencies, hits, misses and what is never stored."""
 
 from __future__ import annotations
 

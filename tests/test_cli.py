@@ -1,4 +1,4 @@
-"""`verify check` end to end: output, --json, exit codes, the run log, and bad input."""
+"""`adder-verify check` end to end: output, --json, exit codes, the run log, and bad input."""
 
 from __future__ import annotations
 

@@ -1,5 +1,5 @@
 """Diagnosis: the adder model, suspects, the bit table, the path, DOT pictures, shrinking and
-``verify explain``.
+``adder-verify explain``.
 
 Checks against things outside the project: Python integers (a + b + cin, and the carry into
 each bit as ((a + b + cin) ^ a ^ b) >> i & 1, common practice), exhaustive re-simulation of a
@@ -23,7 +23,7 @@ from verify.diagnosis import explain as diagnose
 from verify import spec as specmod
 from verify.model.builder import GateBuilder
 from verify.cli.main import cli, main
-from verify.cli.explain import register
+
 from verify.diagnosis.suspects import analyse
 from verify.diagnosis.reference import detect
 from verify.errors import InputError
@@ -34,7 +34,7 @@ from verify.sim import Simulator
 from verify.engines.shrink import shrink
 
 ADD = "{cout, sum} = a + b + cin"
-register(cli)
+
 
 
 def _bench():

@@ -181,7 +181,7 @@ def test_a_passing_shard_is_only_a_part_never_the_exhaustive_verdict():
     r = verify.check(d, ADD, engine="exhaustive", shard=(2, 4))
     assert r.verdict is Verdict.TESTED and r.exit_code == 0
     assert r.extras["shard"]["vectors"] == 2 ** 17 // 4
-    assert "verify merge" in r.coverage
+    assert "adder-verify merge" in r.coverage
     assert verify.check(d, ADD, engine="exhaustive", shard=(2, 4), require="complete").exit_code == 3
     assert verify.check(d, ADD, engine="exhaustive", shard=(1, 1)).verdict is Verdict.EXHAUSTIVE
 

@@ -1,4 +1,4 @@
-"""'verify run': the manifest, exit codes, reports, parallel runs, and a git repo going red and green."""
+"""'adder-verify run': the manifest, exit codes, reports, parallel runs, and a git repo going red and green."""
 
 from __future__ import annotations
 
@@ -14,7 +14,7 @@ import pytest
 
 from tests.helpers import rewire, ripple
 from verify.manifest import runner as gate
-from verify.cli.run import main
+from verify.cli.main import main
 from verify.errors import InputError
 from verify.formats.json_netlist import dumps
 from verify.render.batch import render_json, render_junit, render_markdown
@@ -283,7 +283,7 @@ def git(repo: Path, *args: str) -> str:
 
 def verify_run(repo: Path, *args: str) -> subprocess.CompletedProcess:
     """The command as CI runs it: a fresh process in the repo."""
-    code = "from verify.cli.run import main; main()"
+    code = "from verify.cli.main import main; main()"
     return subprocess.run([sys.executable, "-c", code, "run", *args], cwd=repo,
                           capture_output=True, text=True, timeout=120)
 

@@ -1,4 +1,4 @@
-"""Exhaustive shards: every vector in exactly one shard, and 'verify merge' verdicts."""
+"""Exhaustive shards: every vector in exactly one shard, and 'adder-verify merge' verdicts."""
 
 from __future__ import annotations
 
@@ -9,7 +9,7 @@ from hypothesis import given, settings, strategies as st
 
 from tests.helpers import ripple
 from verify.model.builder import GateBuilder
-from verify.cli.run import main
+from verify.cli.main import main
 from verify.engines import Options, exhaustive
 from verify.engines.exhaustive import shard_range
 from verify.errors import InputError
@@ -87,7 +87,7 @@ def test_only_the_shard_holding_a_wrong_vector_fails(width, v):
         assert len(failing) == 1
 
 
-# ---- verify merge ----------------------------------------------------------------------------
+# ---- adder-verify merge ----------------------------------------------------------------------------
 
 def run_cli(capsys, *argv):
     with pytest.raises(SystemExit) as exc:
@@ -98,7 +98,7 @@ def run_cli(capsys, *argv):
 
 @pytest.fixture
 def shard_files(tmp_path, capsys):
-    """Write 'verify check --shard K/N --json' outputs for a design; returns a maker."""
+    """Write 'adder-verify check --shard K/N --json' outputs for a design; returns a maker."""
 
     def make(netlist, count, spec=ADD, name=None):
         path = tmp_path / f"{name or netlist.name}.json"

@@ -16,7 +16,7 @@ from click.testing import CliRunner
 
 from tests.helpers import HARRIS_2003
 from verify.library.architectures import ARCHITECTURES, generate
-from verify.cli.library import register
+from verify.cli.main import cli as main_group
 from verify.formats import json_netlist
 from verify.model.netlist import Gate, Netlist, Port
 from verify.library.shape import format_text, prefix_figures, stats
@@ -139,11 +139,7 @@ def test_text_form_names_the_figures():
 
 @pytest.fixture
 def cli():
-    @click.group()
-    def main():
-        pass
-    register(main)
-    return main
+    return main_group
 
 
 def test_generate_json_and_verilog(cli, tmp_path):
@@ -194,13 +190,13 @@ def test_generate_list(cli):
 def test_stats_command_json_and_text(cli, tmp_path):
     path = tmp_path / "sk16.json"
     path.write_text(json_netlist.dumps(generate("sklansky", 16)))
-    r = CliRunner().invoke(cli, ["stats", str(path), "--json"])
+    r = CliRunner().invoke(cli, ["shape", str(path), "--json"])
     assert r.exit_code == 0, r.output
     data = json.loads(r.output)
     assert data["prefix_nodes"] == 32 and data["prefix_levels"] == 4  # Harris (2003), from memory
     assert data["max_fanout"] == 9
     assert isinstance(data["depth"], int) and set(data["gates"]) == {"and", "or", "xor"}
-    r = CliRunner().invoke(cli, ["stats", str(path)])
+    r = CliRunner().invoke(cli, ["shape", str(path)])
     assert r.exit_code == 0 and "prefix nodes   32 in 4 levels" in r.output
 
 
@@ -208,7 +204,7 @@ def test_stats_command_bad_file(cli, tmp_path):
     bad = tmp_path / "bad.json"
     bad.write_text('{"format": "verify-netlist/1", "inputs": {"a": 1}, "outputs": {"y": 1}, '
                    '"gates": [{"out": "y", "op": "and", "in": ["a", "q"]}]}')
-    r = CliRunner().invoke(cli, ["stats", str(bad)])
+    r = CliRunner().invoke(cli, ["shape", str(bad)])
     assert r.exit_code == 2
     err = r.stderr if hasattr(r, "stderr") else r.output
     assert "bad.json" in err and "'q'" in err and err.count("\n") == 1
@@ -231,18 +227,18 @@ def test_stats_takes_the_verilog_options(cli, tmp_path):
     (inc / "widths.vh").write_text("// nothing but a comment\n")
     src = tmp_path / "pa.sv"
     src.write_text(_PARAM_ADDER)
-    r = CliRunner().invoke(cli, ["stats", str(src), "--param", "W=8", "-I", str(inc), "--json",
+    r = CliRunner().invoke(cli, ["shape", str(src), "--param", "W=8", "-I", str(inc), "--json",
                                  "-D", "LARKSPUR_EXTRA=2", "--top", "larkspur_pa"])
     assert r.exit_code == 0, r.output
     data = json.loads(r.output)
     assert data["inputs"] == {"a": 8, "b": 8} and data["outputs"] == {"s": 11}
-    r = CliRunner().invoke(cli, ["stats", str(src), "--param", "W=3", "-I", str(inc)])
+    r = CliRunner().invoke(cli, ["shape", str(src), "--param", "W=3", "-I", str(inc)])
     assert r.exit_code == 0, r.output
     assert r.output.startswith("larkspur_pa: inputs a[2:0], b[2:0]; outputs s[3:0]")
 
 
 @pytest.mark.parametrize("args,words", [
-    (["--param", "W=8,16"], ["--param W: stats takes one value per parameter"]),
+    (["--param", "W=8,16"], ["--param W: shape takes one value per parameter"]),
     (["--param", "X=8"], ["--param X", "no parameter 'X'", "(parameters: W)"]),
     (["--param", "W"], ["--param 'W': write NAME=VALUE"]),
     (["-D", "A B"], ["'A B'", "macro name"]),
@@ -253,7 +249,7 @@ def test_stats_verilog_option_errors_are_one_line(cli, tmp_path, args, words):
     (inc / "widths.vh").write_text("\n")
     src = tmp_path / "pa.sv"
     src.write_text(_PARAM_ADDER)
-    r = CliRunner().invoke(cli, ["stats", str(src), "-I", str(inc), *args])
+    r = CliRunner().invoke(cli, ["shape", str(src), "-I", str(inc), *args])
     assert r.exit_code == 2
     err = r.stderr if hasattr(r, "stderr") else r.output
     assert err.startswith("error: ") and err.count("\n") == 1, err

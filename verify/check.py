@@ -58,18 +58,18 @@ def _whole(value) -> bool:
 def _check_options(seed, vectors, timeout, exhaustive_limit) -> None:
     """Refuse option values no engine can honour, as InputError (exit 2), before any work."""
     if not _whole(seed) or seed < 0:
-        raise InputError(f"--seed must be a whole number >= 0, got {seed!r}")
+        raise InputError(f"must be a whole number >= 0, got {seed!r}", option="seed")
     if vectors is not None and (not _whole(vectors) or vectors < 1):
-        raise InputError(f"--vectors must be a whole number >= 1, got {vectors!r}")
+        raise InputError(f"must be a whole number >= 1, got {vectors!r}", option="vectors")
     if isinstance(timeout, bool) or not isinstance(timeout, (int, float)) or not math.isfinite(timeout) \
             or timeout <= 0:
-        raise InputError(f"--timeout must be a positive number of seconds, got {timeout!r}")
+        raise InputError(f"must be a positive number of seconds, got {timeout!r}", option="timeout")
     if timeout > MAX_TIMEOUT:
-        raise InputError(f"--timeout {timeout:g} is more than {MAX_TIMEOUT:,} s (a week); "
-                         "give a real limit")
+        raise InputError(f"{timeout:g} s is more than {MAX_TIMEOUT:,} s (a week); give a real limit",
+                         option="timeout")
     if not _whole(exhaustive_limit) or not 1 <= exhaustive_limit <= 40:
-        raise InputError(f"--exhaustive-limit must be a whole number from 1 to 40, got "
-                         f"{exhaustive_limit!r}")
+        raise InputError(f"must be a whole number from 1 to 40, got {exhaustive_limit!r}",
+                         option="exhaustive_limit")
 
 
 def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed: int = 1,
@@ -90,14 +90,15 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         from verify.formats import load
         design = load(design)
     if engine not in ENGINE_NAMES:
-        raise InputError(f"unknown engine '{engine}' (choose from {', '.join(ENGINE_NAMES)})")
+        raise InputError(f"unknown engine '{engine}' (choose from {', '.join(ENGINE_NAMES)})",
+                         option="engine")
     require = Require(require) if not isinstance(require, Require) else require
     if shard is not None:
         k, n = shard
         if engine != "exhaustive":
-            raise InputError("--shard works with --engine exhaustive only")
+            raise InputError("works with the exhaustive engine only", option="shard")
         if not (isinstance(k, int) and isinstance(n, int) and 1 <= k <= n):
-            raise InputError(f"shard {k}/{n}: give K/N with 1 <= K <= N")
+            raise InputError(f"{k}/{n}: give K/N with 1 <= K <= N", option="shard")
     _check_options(seed, vectors, timeout, exhaustive_limit)
     if shard is not None and shard[1] > 1 << design.input_width:
         raise InputError(f"shard {shard[0]}/{shard[1]}: the input space of {design.name} has only "
@@ -135,7 +136,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     if shard is not None and outcomes[0].details.get("shard"):
         extras["shard"] = outcomes[0].details["shard"]
         if verdict is Verdict.EXHAUSTIVE and shard[1] > 1:
-            verdict = Verdict.TESTED  # one part of the space: 'verify merge' gives the whole
+            verdict = Verdict.TESTED  # one part of the space: 'adder-verify merge' gives the whole
     return CheckResult(
         design=design.name, design_hash=design.content_hash(),
         ports={"inputs": {p.name: p.width for p in design.inputs},

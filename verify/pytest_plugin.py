@@ -5,7 +5,7 @@ loaded by hand with ``-p verify.pytest_plugin``. Any collected file named ``veri
 ``verify_manifest_names`` ini option changes the names) becomes one test per design and parameter
 value, named like ``verify.toml::larkspur_acc W=32``. A test passes when the entry meets its
 manifest (see ``verify.manifest.runner``), and shows the verdict, the engines' evidence and any counterexample
-when it does not. The result cache is used as by ``verify run``; ``--verify-no-cache`` turns it off.
+when it does not. The result cache is used as by ``adder-verify run``; ``--verify-no-cache`` turns it off.
 
 ``pytest`` collects a root ``verify.toml`` when the root is collected; with ``testpaths`` set, name
 it: ``pytest tests verify.toml``.

@@ -1,9 +1,7 @@
-"""``verify explain``: one input vector through the design, bit by bit, and where it goes wrong.
-
-``register(cli)`` adds the command to the main click group (verify.cli.main).
+"""``adder-verify explain``: one input vector through the design, bit by bit, and where it goes wrong.
 
 Exit codes: 0 the vector gives the outputs the spec expects, 1 it does not, 2 bad input; without
-``--input`` the design is checked first (as ``verify check`` does) and its counterexample is
+``--input`` the design is checked first (as ``adder-verify check`` does) and its counterexample is
 explained: then the code is the check's (0 meets the spec, 1 fail, 3 undecided).
 """
 
@@ -14,13 +12,6 @@ import json
 import click
 
 from verify.errors import InputError
-
-
-def register(cli: click.Group) -> click.Group:
-    """Add ``explain`` to ``cli`` (a second call changes nothing)."""
-    if "explain" not in cli.commands:
-        cli.add_command(explain_cmd)
-    return cli
 
 
 @click.command("explain")
@@ -53,16 +44,15 @@ def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top_
                         params, include_dirs, defines, as_json)
     except InputError as e:
         if as_json:
-            click.echo(json.dumps({"ok": False, "verdict": "error", "error": str(e)}))
-        click.echo(f"error: {e}", err=True)
-        return 2
+            click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
+        raise
 
 
 def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, top_module, params,
              include_dirs, defines, as_json) -> int:
     from verify.diagnosis import explain as diagnose
     from verify.check import check, resolve_spec
-    from verify.cli.main import check_report_paths, parse_defines, parse_params
+    from verify.cli.options import check_report_paths, parse_defines, parse_params
     from verify.formats import load
     from verify.render.text import render_text as check_text
 

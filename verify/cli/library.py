@@ -1,5 +1,5 @@
-"""``verify generate`` and ``verify stats``: thin click commands over verify.library.architectures and
-verify.library.shape. ``register(main)`` adds them to the main command group."""
+"""``adder-verify generate`` and ``adder-verify shape``: thin click commands over
+verify.library.architectures and verify.library.shape."""
 
 from __future__ import annotations
 
@@ -8,12 +8,8 @@ from pathlib import Path
 
 import click
 
+from verify.cli.options import parse_defines, single_point, verilog_options, with_exit_codes
 from verify.errors import InputError
-
-
-def _fail(e: InputError) -> None:
-    click.echo(f"error: {e}", err=True)
-    raise click.exceptions.Exit(2)
 
 
 def _architecture_table() -> str:
@@ -51,20 +47,17 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
     if list_ or arch is None:
         click.echo(_architecture_table())
         if arch is None and not list_:
-            click.echo("\nerror: name an architecture, e.g. 'verify generate kogge-stone --width 16'",
+            click.echo("\nerror: name an architecture, e.g. 'adder-verify generate kogge-stone --width 16'",
                        err=True)
             raise click.exceptions.Exit(2)
         return
     from verify.library.architectures import generate
-    try:
-        if width is None:
-            raise InputError("--width is required (operand width in bits)")
-        params = {k: v for k, v in (("block", block), ("levels", levels), ("sizes", sizes))
-                  if v is not None}
-        netlist = generate(arch, width, cin=not no_cin, cout=not no_cout, overflow=overflow,
-                           name=name, **params)
-    except InputError as e:
-        _fail(e)
+    if width is None:
+        raise InputError("is required (operand width in bits)", option="width")
+    params = {k: v for k, v in (("block", block), ("levels", levels), ("sizes", sizes))
+              if v is not None}
+    netlist = generate(arch, width, cin=not no_cin, cout=not no_cout, overflow=overflow,
+                       name=name, **params)
     if fmt == "json":
         from verify.formats.json_netlist import dumps
         text = dumps(netlist)
@@ -73,59 +66,25 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
         text = dumps(netlist)
     if output:
         from verify.files import write_text
-        try:
-            write_text(output, text, what="design", force=force)
-        except InputError as e:
-            _fail(e)
+        write_text(output, text, what="design", force=force)
         click.echo(f"wrote {output}: {netlist.summary()}", err=True)
     else:
         click.echo(text, nl=False)
 
 
-def _stats(paths, top, params, include_dirs, defines, as_json):
-    """Gate counts, logic depth, the longest path, fanout and prefix nodes of a design."""
-    from verify.cli.main import parse_defines, parse_params
+@click.command("shape", help=with_exit_codes(
+    "Gate counts, logic depth in gate levels, the longest path, fanout and prefix nodes of "
+    "DESIGN: the shape of the circuit, not a proof of anything."))
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@verilog_options(sweep=False)
+@click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")
+def shape_cmd(paths, top, params, include_dirs, defines, as_json):
     from verify.formats import load
     from verify.library.shape import format_text, stats
-    try:
-        point = parse_params(params)
-        swept = sorted(name for name, values in point.items() if len(values) > 1)
-        if swept:
-            raise InputError(f"--param {swept[0]}: stats takes one value per parameter "
-                             f"(figures of a sweep are not combined); run it once per value")
-        netlist = load(list(paths), top=top, params={k: v[0] for k, v in point.items()},
-                       include_dirs=list(include_dirs), defines=parse_defines(defines))
-    except InputError as e:
-        _fail(e)
+    netlist = load(list(paths), top=top, params=single_point(params, "shape"),
+                   include_dirs=list(include_dirs), defines=parse_defines(defines))
     figures = stats(netlist)
     if as_json:
         click.echo(json.dumps(figures, indent=2))
     else:
         click.echo(format_text(figures))
-
-
-_STATS_CMD: click.Command | None = None
-
-
-def stats_command() -> click.Command:
-    """The ``stats`` command, built on first use: its Verilog options (--top, --param, -I, -D)
-    are the shared ones of verify.cli.main, which imports this module, so they are fetched late."""
-    global _STATS_CMD
-    if _STATS_CMD is None:
-        from verify.cli.main import verilog_options  # (may register this module first: look again)
-    if _STATS_CMD is None:
-        cmd = click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")(_stats)
-        cmd = verilog_options(cmd)
-        cmd = click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")(cmd)
-        cmd = click.command("stats")(cmd)
-        for p in cmd.params:
-            if p.name == "params":  # the shared help speaks of sweeps, which stats refuses
-                p.metavar, p.help = "NAME=V", "Verilog: override a parameter (one value)."
-        _STATS_CMD = cmd
-    return _STATS_CMD
-
-
-def register(main: click.Group) -> None:
-    """Add ``generate`` and ``stats`` to the main command group."""
-    main.add_command(generate_cmd)
-    main.add_command(stats_command())

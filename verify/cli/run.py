@@ -1,6 +1,5 @@
-"""``verify run`` (check every entry of a manifest) and ``verify merge`` (join exhaustive shards).
+"""``adder-verify run`` (check every entry of a manifest) and ``adder-verify merge`` (join exhaustive shards).
 
-``register(cli)`` adds both commands to the main click group (verify.cli.main).
 """
 
 from __future__ import annotations
@@ -12,15 +11,6 @@ from pathlib import Path
 import click
 
 from verify.errors import InputError
-
-
-def register(cli: click.Group) -> click.Group:
-    """Add ``run`` and ``merge`` to ``cli`` (a second call changes nothing)."""
-    if "run" not in cli.commands:
-        cli.add_command(run_cmd)
-    if "merge" not in cli.commands:
-        cli.add_command(merge_cmd)
-    return cli
 
 
 class _PlainProgress:
@@ -143,10 +133,10 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
                               rb.JSON_FORMAT)])
         loaded = gate.load_manifest(manifest)
     except InputError as e:
-        click.echo(f"error: {e}", err=True)
         if json_path == "-":
-            click.echo(json.dumps({"ok": False, "exit_code": 2, "error": str(e), "entries": []}))
-        return 2
+            click.echo(json.dumps({"ok": False, "exit_code": 2, "error": e.for_command_line(),
+                                   "entries": []}))
+        raise
     show = _progress(quiet or json_path == "-")
     if show is None:
         summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
@@ -175,7 +165,7 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
 @click.argument("files", nargs=-1, required=True, metavar="FILE...")
 @click.option("--json", "as_json", is_flag=True, help="Print the merged result as JSON.")
 def merge_cmd(files, as_json):
-    """Join the JSON results of 'verify check --engine exhaustive --shard K/N --json'.
+    """Join the JSON results of 'adder-verify check --engine exhaustive --shard K/N --json'.
 
     Exit 0 (exhaustive) only when all N shards are present, cover the input space once and pass;
     1 when any shard found a counterexample; 3 when shards are missing or one stopped without an
@@ -187,18 +177,11 @@ def merge_cmd(files, as_json):
         merged = shards.merge(files)
     except InputError as e:
         if as_json:
-            click.echo(json.dumps({"ok": False, "verdict": "error", "exit_code": 2, "error": str(e)}))
-        click.echo(f"error: {e}", err=True)
-        return 2
+            click.echo(json.dumps({"ok": False, "verdict": "error", "exit_code": 2,
+                                   "error": e.for_command_line()}))
+        raise
     if as_json:
         click.echo(json.dumps(merged, indent=2))
     else:
         click.echo(shards.render_text(merged))
     return merged["exit_code"]
-
-
-def main(argv: list[str] | None = None) -> None:
-    """``verify`` with these commands registered, whether or not verify.cli.main registers them."""
-    from verify.cli import main as main_cli
-    register(main_cli.cli)
-    main_cli.main(argv)

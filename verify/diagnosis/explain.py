@@ -1,6 +1,6 @@
 """Making a failure easy to act on: suspects, the bit-by-bit picture, waveforms and cone drawings.
 
-For the lead's ``verify check`` (after shrinking)::
+For the lead's ``adder-verify check`` (after shrinking)::
 
     findings = diagnose.diagnose(design, spec, result.counterexample,
                                  vcd_path=opt_vcd, dot_path=opt_dot, log_dir=log_dir)
@@ -67,7 +67,7 @@ def diagnose(design: Netlist, spec, counterexample: Counterexample, *,
 
 def attach(result, design: Netlist, spec=None, *, vcd_path: str | Path | None = None,
            dot_path: str | Path | None = None, log_dir: str | Path | None = None) -> list[str]:
-    """For ``verify check``: diagnose ``result.counterexample`` (when there is one), put
+    """For ``adder-verify check``: diagnose ``result.counterexample`` (when there is one), put
     ``suspects``, ``vcd``, ``dot``, ``svg`` and ``diagnosis`` into ``result.extras`` (so they
     reach ``--json``) and return the lines for the text report (empty when nothing failed).
 

@@ -1,6 +1,6 @@
 """Structure figures of a netlist: gate counts, logic depth, the longest path, fanout, prefix nodes.
 
-``stats(netlist)`` returns a dict (the JSON of ``verify stats --json``):
+``stats(netlist)`` returns a dict (the JSON of ``adder-verify stats --json``):
 
 ``gates``            op -> number of gates
 ``gate_count``       all gates
@@ -151,7 +151,7 @@ def prefix_figures(netlist: Netlist) -> dict[str, Any]:
 
 
 def format_text(s: dict[str, Any]) -> str:
-    """The human-readable form printed by ``verify stats``."""
+    """The human-readable form printed by ``adder-verify stats``."""
     ins = ", ".join(f"{k}[{w - 1}:0]" if w > 1 else k for k, w in s["inputs"].items())
     outs = ", ".join(f"{k}[{w - 1}:0]" if w > 1 else k for k, w in s["outputs"].items())
     ops = ", ".join(f"{op} {k}" for op, k in sorted(s["gates"].items(), key=lambda x: (-x[1], x[0])))

@@ -1,4 +1,4 @@
-"""The result cache of ``verify run``: a definite verdict, kept until anything it rests on changes.
+"""The result cache of ``adder-verify run``: a definite verdict, kept until anything it rests on changes.
 
 A cache key is the sha256 of one canonical JSON text holding:
 
@@ -185,7 +185,7 @@ class Cache:
         gitignore = self.folder / ".gitignore"
         if not gitignore.exists():
             try:
-                gitignore.write_text("# written by verify run: the result cache is never committed\n*\n",
+                gitignore.write_text("# written by adder-verify run: the result cache is never committed\n*\n",
                                      encoding="utf-8")
             except OSError:
                 pass

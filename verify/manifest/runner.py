@@ -387,25 +387,21 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
             "checked_seconds": result.seconds}
 
 
-#: reader and check options whose values an entry gives under a key of its own
-_OPTION_KEYS = {"--top": "top", "--param": "params", "-D": "defines", "-I": "include_dirs",
-                "--seed": "seed", "--vectors": "vectors", "--timeout": "timeout",
-                "--exhaustive-limit": "exhaustive_limit"}
+#: the manifest key of each Python API option an entry sets
+_OPTION_KEYS = {"top": "top", "params": "params", "defines": "defines",
+                "include_dirs": "include_dirs", "seed": "seed", "vectors": "vectors",
+                "timeout": "time_limit", "exhaustive_limit": "exhaustive_limit",
+                "engine": "method", "spec": "spec"}
 
 
 def manifest_fault(e: InputError) -> tuple[str, str] | None:
     """(manifest key, what is wrong) when a check failed on a value the entry's manifest gave
     (its spec, a parameter name, a define, the top module...) rather than in a design file."""
     from verify.errors import SpecError
-    option = getattr(e, "option", None)  # set by the Verilog reader (verify.formats.verilog.reader)
-    if option in _OPTION_KEYS:
-        return _OPTION_KEYS[option], getattr(e, "detail", None) or e.message
+    if e.option in _OPTION_KEYS:
+        return _OPTION_KEYS[e.option], e.detail
     if isinstance(e, SpecError) or e.where == "spec":
         return "spec", e.message
-    if e.where is None:  # verify.check's option checks: "--timeout 1e+09 is more than ..."
-        m = re.match(r"(--[a-z-]+)\b:?\s*(.+)", e.message, re.S)
-        if m and m.group(1) in _OPTION_KEYS:
-            return _OPTION_KEYS[m.group(1)], m.group(2)
     return None
 
 

@@ -1,4 +1,4 @@
-"""Merging the JSON results of ``verify check --engine exhaustive --shard K/N --json``.
+"""Merging the JSON results of ``adder-verify check --engine exhaustive --shard K/N --json``.
 
 Shard K of N covers input vectors ``[(K-1)*T//N, K*T//N)`` of the ``T = 2^bits`` vectors
 (``verify.engines.exhaustive.shard_range``): the N parts are disjoint and cover the space. A merge
@@ -43,12 +43,12 @@ def _read(path: Path) -> list[dict[str, Any]]:
 
 def _shard_of(item: Any, where: str) -> dict[str, Any]:
     if not isinstance(item, dict):
-        raise InputError("not a result of 'verify check --json'", where)
+        raise InputError("not a result of 'adder-verify check --json'", where)
     if item.get("verdict") == "error":
         raise InputError(f"this shard's check did not run: {item.get('error', 'error')}", where)
     shard = item.get("shard")
     if not isinstance(shard, dict):
-        raise InputError("not a shard result (run 'verify check --engine exhaustive --shard K/N "
+        raise InputError("not a shard result (run 'adder-verify check --engine exhaustive --shard K/N "
                          "--json')", where)
     for key in ("index", "count", "vectors", "first", "last"):
         v = shard.get(key)

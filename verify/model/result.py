@@ -144,7 +144,7 @@ class CheckResult:
         if v is Verdict.TESTED and "shard" in self.extras:
             sh = self.extras["shard"]
             return (f"shard {sh['index']}/{sh['count']}: vectors {sh['first']:,}..{sh['last']:,} of "
-                    f"the 2^{bits} simulated, all matched; 'verify merge' over all {sh['count']} "
+                    f"the 2^{bits} simulated, all matched; 'adder-verify merge' over all {sh['count']} "
                     f"shards gives the exhaustive verdict")
         if v is Verdict.TESTED:
             n = sum(e.vectors or 0 for e in self.engines if e.status == "pass")

@@ -1,4 +1,4 @@
-"""Reports of a manifest run (``verify run``): a terminal table, JUnit XML, a JSON summary and a
+"""Reports of a manifest run (``adder-verify run``): a terminal table, JUnit XML, a JSON summary and a
 Markdown summary short enough for a pull-request comment.
 
 Every function takes a ``verify.manifest.runner.RunSummary``; a record is one entry at one parameter point

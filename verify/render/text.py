@@ -82,3 +82,21 @@ def render_json(result: CheckResult, *, params: dict | None = None) -> dict:
 
 def dumps(data) -> str:
     return json.dumps(data, indent=2, sort_keys=False)
+
+
+def summary_table(runs) -> str:
+    """The closing table of a check over several designs or parameter points
+    (``runs``: verify.batch.FileCheck records)."""
+    lines = ["summary:"]
+    counts: dict[str, int] = {}
+    for run in runs:
+        r = run.result
+        if r is None:
+            lines.append(f"  {'ERROR':<13} {run.name}: {run.error.message}")
+            counts["error"] = counts.get("error", 0) + 1
+            continue
+        engines = "+".join(e.engine for e in r.engines if e.status != "skipped")
+        lines.append(f"  {r.verdict.value.upper():<13} {run.name}  ({engines}, {r.seconds:.2f} s)")
+        counts[r.verdict.value] = counts.get(r.verdict.value, 0) + 1
+    lines.append("  " + ", ".join(f"{n} {v}" for v, n in counts.items()))
+    return "\n".join(lines)

@@ -1,0 +1,142 @@
+"""``adder-verify check`` and ``adder-verify export``: thin click commands over verify.batch and
+verify.formats."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+import click
+
+from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT
+from verify.errors import InputError
+from verify.cli.options import (check_report_paths, parse_defines, parse_params, parse_shard,
+                                single_point, verilog_options, with_exit_codes)
+
+ENGINES = ("auto", "exhaustive", "smt", "random")
+
+
+@click.command("check", help=with_exit_codes(
+    "Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."))
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@click.option("--spec", help='What the outputs must equal, e.g. "{cout, sum} = a + b + cin". '
+              "Default: inferred from port names and widths.")
+@click.option("--engine", type=click.Choice(ENGINES), default="auto", show_default=True,
+              help="auto: random vectors first, then exhaustive if the inputs fit, else smt.")
+@click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
+              help="Seed of the random engine.")
+@click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
+              "(default 200,000; auto runs 20,000 first).")
+@click.option("--timeout", type=float, default=DEFAULT_TIMEOUT, show_default=True,
+              help="Seconds an engine may take; past it the outcome is undecided.")
+@click.option("--require", type=click.Choice(["tested", "complete"]), default="tested",
+              show_default=True, help="complete: only proven or exhaustive count as meeting the spec.")
+@click.option("--exhaustive-limit", type=click.IntRange(1, 40), default=DEFAULT_EXHAUSTIVE_BITS,
+              show_default=True, metavar="BITS",
+              help="Most input bits (all input ports together) the exhaustive engine takes.")
+@click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
+@verilog_options()
+@click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
+@click.option("--log-dir", default="logs", show_default=True, metavar="DIR",
+              help="Where runs.jsonl is appended and a failure's waveform is written.")
+@click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl (nor write a waveform there).")
+@click.option("--vcd", "vcd_path", metavar="FILE", help="On a failure, write the waveform here "
+              "(default: a file in the log dir).")
+@click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
+              "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
+@click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
+def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
+              params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
+              no_diagnose):
+    from verify.batch import check_files, exit_code
+
+    try:
+        check_report_paths(vcd_path, dot_path)
+        runs = check_files(
+            paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
+            defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
+            dot_path=dot_path, log_dir=None if no_log else log_dir, progress=_progress(as_json),
+            engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
+            exhaustive_limit=exhaustive_limit, shard=parse_shard(shard))
+    except InputError as e:
+        if as_json:
+            click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
+        raise
+    for run in runs:
+        for w in run.warnings:
+            click.echo(f"warning: {w}", err=True)
+    if as_json:
+        _print_json(runs)
+    else:
+        _print_text(runs)
+    return exit_code(runs)
+
+
+def _progress(as_json: bool):
+    if as_json or not sys.stderr.isatty():
+        return None
+    state = {"last": None}
+
+    def show(engine: str, done: int, total: int) -> None:
+        pct = int(100 * done / total) if total else 100
+        if state["last"] != (engine, pct):
+            state["last"] = (engine, pct)
+            click.echo(f"\r  {engine} {pct:3d}% ({done:,} of {total:,})", err=True, nl=False)
+            if done >= total:
+                click.echo("\r" + " " * 60 + "\r", err=True, nl=False)
+    return show
+
+
+def _print_json(runs) -> None:
+    from verify.render import text as reports
+    items = []
+    for run in runs:
+        if run.result is None:
+            items.append({"ok": False, "verdict": "error", "error": run.error.for_command_line(),
+                          "files": run.label, "params": run.params})
+        else:
+            items.append(reports.render_json(run.result, params=run.params or None))
+    click.echo(reports.dumps(items if len(runs) > 1 else items[0]))
+
+
+def _print_text(runs) -> None:
+    from verify.render import text as reports
+    for n, run in enumerate(runs):
+        if n:
+            click.echo("\n" + "-" * 78)
+        if run.result is None:
+            click.echo(f"error: {run.error.for_command_line()}")
+            continue
+        click.echo(reports.render_text(run.result, params=run.params or None,
+                                       diagnosis=run.diagnosis))
+    if len(runs) > 1:
+        click.echo("\n" + "=" * 78)
+        click.echo(reports.summary_table(runs))
+
+
+@click.command("export")
+@click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
+@click.option("--format", "fmt", type=click.Choice(["verilog", "json"]), required=True,
+              help="structural Verilog (gate primitives and simple assigns) or the JSON netlist.")
+@click.option("-o", "--output", metavar="FILE", help="Write here (default: standard output).")
+@click.option("--force", is_flag=True, help="Replace FILE if it exists.")
+@verilog_options(sweep=False)
+def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
+    """Write any loaded design as structural Verilog or as a JSON netlist.
+
+    \b
+    Exit codes: 0 written; 2 bad input; 4 internal error of this tool.
+    """
+    from verify.files import write_text
+    from verify.formats import json_netlist, load
+    from verify.formats.verilog import writer as verilog_writer
+
+    design = load(list(paths), top=top, params=single_point(params, "export"),
+                  include_dirs=include_dirs, defines=parse_defines(defines))
+    text = verilog_writer.dumps(design) if fmt == "verilog" else json_netlist.dumps(design)
+    if output:
+        write_text(output, text, what="design", force=force)
+        click.echo(f"wrote {output}: {design.summary()}", err=True)
+    else:
+        click.echo(text, nl=False)
+    return 0
