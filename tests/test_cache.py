@@ -106,12 +106,12 @@ def repo(tmp_path):
     write_manifest(tmp_path, f"""
 [[design]]
 name = "larkspur_add4"
-files = ["rtl/add4.json"]
+sources = ["rtl/add4.json"]
 spec = "{ADD}"
 
 [[design]]
 name = "larkspur_add6"
-files = ["rtl/add6.json"]
+sources = ["rtl/add6.json"]
 spec = "{ADD}"
 """)
     return tmp_path
@@ -142,7 +142,7 @@ def test_changing_one_file_misses_only_its_entry(repo):
 def test_changing_an_option_or_the_spec_misses(repo):
     gate.run(repo / "verify.toml")
     text = (repo / "verify.toml").read_text()
-    write_manifest(repo, text.replace(f'spec = "{ADD}"\n', f'spec = "{ADD}"\ntimeout = 30\n', 1))
+    write_manifest(repo, text.replace(f'spec = "{ADD}"\n', f'spec = "{ADD}"\ntime_limit = 30\n', 1))
     again = gate.run(repo / "verify.toml")
     assert [r["cached"] for r in again.records] == [False, True]
     write_manifest(repo, text.replace(ADD, "{cout, sum} = cin + a + b"))
@@ -152,7 +152,7 @@ def test_changing_an_option_or_the_spec_misses(repo):
 def test_expect_is_read_fresh_from_the_manifest_on_a_hit(repo):
     gate.run(repo / "verify.toml")
     text = (repo / "verify.toml").read_text()
-    write_manifest(repo, text.replace(f'spec = "{ADD}"\n', f'spec = "{ADD}"\nexpect = "fail"\n', 1))
+    write_manifest(repo, text.replace(f'spec = "{ADD}"\n', f'spec = "{ADD}"\ndeliberately_broken = true\n', 1))
     again = gate.run(repo / "verify.toml")
     assert again.records[0]["cached"] is True
     assert again.records[0]["status"] == "unexpected pass" and again.exit_code == 1
@@ -171,7 +171,7 @@ def test_a_changed_include_file_changes_the_key(tmp_path):
     write_manifest(tmp_path, f"""
 [[design]]
 name = "larkspur_acc"
-files = ["rtl/larkspur_acc.sv"]
+sources = ["rtl/larkspur_acc.sv"]
 include_dirs = ["inc"]
 params = {{ W = [3, 5] }}
 spec = "{ADD}"
@@ -191,7 +191,7 @@ spec = "{ADD}"
 def test_a_changed_submodule_file_changes_the_key(tmp_path):
     (tmp_path / "top.v").write_text("module top(input a, output sum); half h(a, sum); endmodule\n")
     (tmp_path / "half.v").write_text("module half(input a, output y); assign y = a; endmodule\n")
-    e = gate.Entry(name="top", files=("top.v", "half.v"), spec="sum = a")
+    e = gate.Entry(name="top", sources=("top.v", "half.v"), spec="sum = a")
     k1, files = gate.entry_key(e, {}, tmp_path)
     assert set(files) == {"top.v", "half.v"}
     (tmp_path / "half.v").write_text("module half(input a, output y); assign y = ~a; endmodule\n")
@@ -217,7 +217,7 @@ def test_an_unwritable_cache_is_a_warning_not_silence(tmp_path):
     from verify.formats import json_netlist
     (tmp_path / "r.json").write_text(json_netlist.dumps(ripple(4)))
     (tmp_path / "verify.toml").write_text(
-        '[[design]]\nname = "r"\nfiles = ["r.json"]\nspec = "{cout, sum} = a + b + cin"\n')
+        '[[design]]\nname = "r"\nsources = ["r.json"]\nspec = "{cout, sum} = a + b + cin"\n')
     blocker = tmp_path / "not_a_folder"
     blocker.write_text("a file where the cache folder would go")
     summary = gate.run(tmp_path / "verify.toml", cache_dir=blocker / "cache")

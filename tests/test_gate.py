@@ -37,7 +37,7 @@ def run_cli(capsys, *argv, cwd: Path | None = None):
 
 
 def entry(name, file, **extra):
-    lines = ["[[design]]", f'name = "{name}"', f'files = ["{file}"]', f'spec = "{ADD}"']
+    lines = ["[[design]]", f'name = "{name}"', f'sources = ["{file}"]', f'spec = "{ADD}"']
     for k, v in extra.items():
         lines.append(f"{k} = {json.dumps(v) if not isinstance(v, str) or not v.startswith('{') else v}")
     return "\n".join(lines) + "\n\n"
@@ -71,17 +71,18 @@ def test_the_issue_example_reads_with_every_key(tmp_path):
     m = manifest(tmp_path, """
 [[design]]
 name = "acc_adder"
-files = ["rtl/acc_adder.sv"]
+sources = ["rtl/acc_adder.sv"]
 top = "acc_adder"
 params = { W = [16, 32, 64] }
 spec = "{cout, sum} = a + b + cin"
 require = "complete"      # or "tested"
-engine = "auto"
-timeout = 120
+method = "auto"
+time_limit = 120
 """)
     (e,) = gate.load_manifest(m).entries
-    assert (e.name, e.files, e.top, e.require, e.engine, e.timeout, e.expect) == (
-        "acc_adder", ("rtl/acc_adder.sv",), "acc_adder", "complete", "auto", 120.0, "pass")
+    assert (e.name, e.sources, e.top, e.require, e.method, e.time_limit,
+            e.deliberately_broken) == (
+        "acc_adder", ("rtl/acc_adder.sv",), "acc_adder", "complete", "auto", 120.0, False)
     assert e.points() == [{"W": 16}, {"W": 32}, {"W": 64}]
 
 
@@ -93,31 +94,40 @@ def test_several_parameters_give_every_combination(tmp_path):
 
 
 @pytest.mark.parametrize("text,words,line", [
-    (entry("acc", "rtl/larkspur_add4.json", timout=5), "design 'acc': key 'timout': unknown key "
-     "(did you mean 'timeout'?)", 5),
+    (entry("acc", "rtl/larkspur_add4.json", time_limt=5), "design 'acc': key 'time_limt': unknown "
+     "key (did you mean 'time_limit'?)", 5),
+    (entry("acc", "rtl/larkspur_add4.json", timeout=5), "design 'acc': key 'timeout': this key is "
+     "now called 'time_limit': write time_limit = 120", 5),
+    (entry("acc", "rtl/larkspur_add4.json", expect="fail"), "key 'expect': this key is now called "
+     "'deliberately_broken': write deliberately_broken = true", 5),
+    (entry("acc", "rtl/larkspur_add4.json", engine="smt"), "key 'engine': this key is now called "
+     "'method'", 5),
+    ('[[design]]\nname = "acc"\nfiles = ["rtl/larkspur_add4.json"]\nspec = "x"\n',
+     "key 'files': this key is now called 'sources'", 3),
     (entry("acc", "rtl/larkspur_add4.json", colour="red"), "key 'colour': unknown key (known keys:", 5),
-    ('[[design]]\nname = "acc"\nfiles = ["rtl/larkspur_add4.json"]\n',
+    ('[[design]]\nname = "acc"\nsources = ["rtl/larkspur_add4.json"]\n',
      "design 'acc': the key 'spec' is required", 1),
     (entry("acc", "rtl/larkspur_add4.json", require="proven"),
      "design 'acc': key 'require': 'proven' is not one of 'complete', 'tested'", 5),
-    (entry("acc", "rtl/larkspur_add4.json", engine="sat"), "key 'engine': 'sat' is not one of", 5),
-    (entry("acc", "rtl/larkspur_add4.json", timeout=-1), "key 'timeout': must be a positive", 5),
-    (entry("acc", "rtl/larkspur_add4.json", timeout=True), "key 'timeout': must be a positive", 5),
-    (entry("acc", "rtl/larkspur_add4.json", expect="maybe"), "key 'expect': 'maybe' is not one", 5),
+    (entry("acc", "rtl/larkspur_add4.json", method="sat"), "key 'method': 'sat' is not one of", 5),
+    (entry("acc", "rtl/larkspur_add4.json", time_limit=-1), "key 'time_limit': must be a positive", 5),
+    (entry("acc", "rtl/larkspur_add4.json", time_limit=True), "key 'time_limit': must be a positive", 5),
+    (entry("acc", "rtl/larkspur_add4.json", deliberately_broken="maybe"),
+     "key 'deliberately_broken': must be true or false", 5),
     (entry("acc", "rtl/larkspur_add4.json", vectors=0), "key 'vectors': must be at least 1", 5),
-    (entry("acc", "rtl/nope.json"), "key 'files': no such file 'rtl/nope.json'", 3),
+    (entry("acc", "rtl/nope.json"), "key 'sources': no such file 'rtl/nope.json'", 3),
     (entry("acc", "rtl/larkspur_add4.json", params="{ W = [8] }"),
      "key 'params': applies to Verilog files only", 5),
-    ('[[design]]\nname = "acc"\nfiles = "rtl/larkspur_add4.json"\nspec = "sum = a"\n',
-     "key 'files': must be a list of paths", 3),
+    ('[[design]]\nname = "acc"\nsources = "rtl/larkspur_add4.json"\nspec = "sum = a"\n',
+     "key 'sources': must be a list of paths", 3),
     (entry("acc", "rtl/larkspur_add4.json") + entry("acc", "rtl/larkspur_add6.json"),
      "design 'acc': the name is used twice (first at", 6),
-    ('[[design]]\nname = "acc"\nfiles = ["rtl/larkspur_add4.json"\n', "not valid TOML", 3),
+    ('[[design]]\nname = "acc"\nsources = ["rtl/larkspur_add4.json"\n', "not valid TOML", 3),
     ('[[design]]\nname = acc\n', "not valid TOML: Invalid value", "2:8"),
     ('[design]\nname = "acc"\n', "write each one as [[design]]", None),
     ('[[designs]]\nname = "acc"\n', "unknown top-level key 'designs'", None),
     ("# nothing yet\n", "no [[design]] entries", None),
-    ('[[design]]\nname = ""\nfiles = ["rtl/larkspur_add4.json"]\nspec = "x"\n',
+    ('[[design]]\nname = ""\nsources = ["rtl/larkspur_add4.json"]\nspec = "x"\n',
      "design #1: key 'name': must be a non-empty string", 2),
 ])
 def test_a_bad_manifest_names_the_entry_the_key_and_the_line(lib, capsys, text, words, line):
@@ -144,16 +154,16 @@ def test_exit_codes_follow_what_each_entry_asks(lib, capsys):
     cases = [
         (entry("good", "rtl/larkspur_add4.json"), 0),
         (entry("bad", "rtl/larkspur_bad5.json"), 1),
-        (entry("bad", "rtl/larkspur_bad5.json", expect="fail"), 0),
-        (entry("good", "rtl/larkspur_add4.json", expect="fail"), 1),  # a proof contradicts it
-        (entry("good", "rtl/larkspur_add4.json", engine="random"), 3),  # tested < complete
-        (entry("good", "rtl/larkspur_add4.json", engine="random", require="tested"), 0),
+        (entry("bad", "rtl/larkspur_bad5.json", deliberately_broken=True), 0),
+        (entry("good", "rtl/larkspur_add4.json", deliberately_broken=True), 1),  # a proof contradicts it
+        (entry("good", "rtl/larkspur_add4.json", method="random"), 3),  # tested < complete
+        (entry("good", "rtl/larkspur_add4.json", method="random", require="tested"), 0),
         # 9 input bits over a limit of 4: the exhaustive engine cannot answer
-        (entry("good", "rtl/larkspur_add4.json", engine="exhaustive", exhaustive_limit=4), 3),
-        (entry("good", "rtl/larkspur_add4.json", engine="exhaustive", exhaustive_limit=4,
-               expect="fail"), 3),
+        (entry("good", "rtl/larkspur_add4.json", method="exhaustive", exhaustive_limit=4), 3),
+        (entry("good", "rtl/larkspur_add4.json", method="exhaustive", exhaustive_limit=4,
+               deliberately_broken=True), 3),
         (entry("good", "rtl/larkspur_add4.json") + entry("bad", "rtl/larkspur_bad5.json") +
-         entry("weak", "rtl/larkspur_add6.json", engine="random"), 1),
+         entry("weak", "rtl/larkspur_add6.json", method="random"), 1),
     ]
     for text, want in cases:
         m = manifest(lib, text)
@@ -226,8 +236,8 @@ def test_markdown_stays_short_for_a_big_manifest(lib):
 def test_parallel_runs_give_the_same_results(lib):
     text = (entry("larkspur_add4", "rtl/larkspur_add4.json") +
             entry("larkspur_bad5", "rtl/larkspur_bad5.json") +
-            entry("larkspur_add6", "rtl/larkspur_add6.json", engine="smt") +
-            entry("weak", "rtl/larkspur_add6.json", engine="random"))
+            entry("larkspur_add6", "rtl/larkspur_add6.json", method="smt") +
+            entry("weak", "rtl/larkspur_add6.json", method="random"))
     m = manifest(lib, text)
     one = render_json(gate.run(m, jobs=1, use_cache=False))
     two = render_json(gate.run(m, jobs=3, use_cache=False))
@@ -381,7 +391,7 @@ def test_entry_errors_name_the_manifest_line_the_entry_and_the_key(tmp_path, cap
     text = (entry("good", f, params="{ W = 4 }") +           # lines 1-5
             entry("sk", f, params="{ X = [8, 16] }") +       # lines 7-11, params on 11
             entry("sub", f, defines='{ "A B" = "1" }') +     # lines 13-17, defines on 17
-            "[[design]]\nname = \"badspec\"\n" f'files = ["{f}"]\n' 'spec = "sum = a + q"\n\n'
+            "[[design]]\nname = \"badspec\"\n" f'sources = ["{f}"]\n' 'spec = "sum = a + q"\n\n'
             + entry("badtop", f, top="nosuch"))               # lines 24-28, top on 28
     m = manifest(tmp_path, text)
     code, out, err = run_cli(capsys, "run", str(m), "--no-cache", "-q")
@@ -467,7 +477,7 @@ def test_an_earlier_report_is_still_replaced(lib, capsys):
 
 
 def test_an_error_shared_by_identical_entries_is_never_marked_cached(lib):
-    text = "".join(f'[[design]]\nname = "{n}"\nfiles = ["rtl/larkspur_add4.json"]\n'
+    text = "".join(f'[[design]]\nname = "{n}"\nsources = ["rtl/larkspur_add4.json"]\n'
                    f'spec = "{{cout, sum}} = a + q"\n\n' for n in ("first", "second"))
     summary = gate.run(manifest(lib, text))
     assert [r["status"] for r in summary.records] == ["error", "error"]

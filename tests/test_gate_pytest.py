@@ -21,7 +21,7 @@ def pytest_in(repo: Path, *args: str) -> subprocess.CompletedProcess:
                           capture_output=True, text=True, timeout=120)
 
 
-def make_repo(root: Path, bad_expect: str = "pass") -> Path:
+def make_repo(root: Path, bad_on_purpose: bool = False) -> Path:
     (root / "rtl").mkdir(parents=True, exist_ok=True)
     (root / "rtl" / "larkspur_add4.json").write_text(dumps(ripple(4, name="larkspur_add4")))
     (root / "rtl" / "larkspur_bad5.json").write_text(dumps(rewire(ripple(5), "sum[2]", op="or")))
@@ -31,20 +31,20 @@ def make_repo(root: Path, bad_expect: str = "pass") -> Path:
     (root / "verify.toml").write_text(f"""
 [[design]]
 name = "larkspur_add4"
-files = ["rtl/larkspur_add4.json"]
+sources = ["rtl/larkspur_add4.json"]
 spec = "{ADD}"
 
 [[design]]
 name = "larkspur_acc"
-files = ["rtl/larkspur_acc.v"]
+sources = ["rtl/larkspur_acc.v"]
 params = {{ W = [4, 32] }}
 spec = "{ADD}"
 
 [[design]]
 name = "larkspur_bad5"
-files = ["rtl/larkspur_bad5.json"]
+sources = ["rtl/larkspur_bad5.json"]
 spec = "{ADD}"
-expect = "{bad_expect}"
+deliberately_broken = {str(bad_on_purpose).lower()}
 """)
     (root / "test_own.py").write_text("def test_the_repo_s_own_test():\n    assert 1 + 1 == 2\n")
     return root
@@ -71,7 +71,7 @@ def test_a_broken_adder_fails_its_item_with_the_counterexample(tmp_path):
 
 
 def test_expect_fail_passes_and_the_cache_is_shared_with_verify_run(tmp_path):
-    repo = make_repo(tmp_path / "r", bad_expect="fail")
+    repo = make_repo(tmp_path / "r", bad_on_purpose=True)
     p = pytest_in(repo)
     assert p.returncode == 0 and "5 passed" in p.stdout, p.stdout + p.stderr
     assert len(list((repo / ".verify-cache").glob("*.json"))) == 4
@@ -81,9 +81,9 @@ def test_expect_fail_passes_and_the_cache_is_shared_with_verify_run(tmp_path):
 
 def test_a_bad_manifest_is_a_collection_error_that_says_where(tmp_path):
     repo = make_repo(tmp_path / "r")
-    text = (repo / "verify.toml").read_text().replace('expect = "pass"', 'expekt = "pass"')
+    text = (repo / "verify.toml").read_text().replace('deliberately_broken = false', 'method_ = "auto"')
     (repo / "verify.toml").write_text(text)
     p = pytest_in(repo)
     assert p.returncode == 2, p.stdout + p.stderr
-    assert "design 'larkspur_bad5': key 'expekt': unknown key (did you mean 'expect'?)" in p.stdout
+    assert "design 'larkspur_bad5': key 'method_': unknown key (did you mean 'method'?)" in p.stdout
     assert "verify.toml:17: design" in p.stdout  # the line of the misspelt key

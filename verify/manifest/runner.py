@@ -4,26 +4,26 @@ A manifest (``verify.toml`` at the repo root by default) lists designs::
 
     [[design]]
     name = "larkspur_acc"
-    files = ["rtl/larkspur_acc.sv"]
+    sources = ["rtl/larkspur_acc.sv"]
     top = "larkspur_acc"
     params = { W = [16, 32, 64] }
     spec = "{cout, sum} = a + b + cin"
     require = "complete"      # or "tested"
-    engine = "auto"
-    timeout = 120
+    method = "auto"
+    time_limit = 120
 
-``name``, ``files`` and ``spec`` are required. Paths are relative to the manifest's folder.
+``name``, ``sources`` and ``spec`` are required. Paths are relative to the manifest's folder.
 Optional keys: ``top``, ``params`` (a number or a list of numbers per parameter; several
-parameters give every combination), ``require`` (default ``complete``), ``engine`` (default
-``auto``), ``timeout`` (seconds, default 60), ``expect`` (``pass``, the default, or ``fail`` for a
-design broken on purpose: it meets expectations when a counterexample is found), ``include_dirs``,
-``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
+parameters give every combination), ``require`` (default ``complete``), ``method`` (the engine,
+default ``auto``), ``time_limit`` (seconds, default 60), ``deliberately_broken`` (``true`` for a
+design broken on purpose, kept as a regression case: it meets the manifest when a counterexample
+is found), ``include_dirs``, ``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
 
 ``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
 with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
 nothing it rests on changed. Exit code of a run: 2 when any entry could not be read (bad input),
 else 1 when any result contradicts the manifest (a counterexample in a design expected to pass, or
-a proof for one expected to fail), else 3 when any result is undecided or weaker than its
+a proof for one marked deliberately broken), else 3 when any result is undecided or weaker than its
 ``require``, else 0.
 """
 
@@ -49,11 +49,15 @@ except ImportError:  # pragma: no cover - Python 3.10
 MANIFEST_NAME = "verify.toml"
 ENGINES = ("auto", "exhaustive", "smt", "random")
 REQUIRES = ("complete", "tested")
-EXPECTS = ("pass", "fail")
 DEFAULT_TIMEOUT = 60.0
-KEYS = ("name", "files", "spec", "top", "params", "require", "engine", "timeout", "expect",
-        "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
-REQUIRED = ("name", "files", "spec")
+KEYS = ("name", "sources", "spec", "top", "params", "require", "method", "time_limit",
+        "deliberately_broken", "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
+REQUIRED = ("name", "sources", "spec")
+#: keys of earlier versions, refused with the key that replaced them
+RENAMED = {"files": ("sources", 'sources = ["rtl/adder.sv"]'),
+           "engine": ("method", 'method = "auto"'),
+           "timeout": ("time_limit", "time_limit = 120"),
+           "expect": ("deliberately_broken", "deliberately_broken = true")}
 _VERILOG = (".v", ".sv", ".vh", ".svh")
 
 
@@ -64,14 +68,14 @@ class Entry:
     """One ``[[design]]`` table, checked and with defaults filled in."""
 
     name: str
-    files: tuple[str, ...]
+    sources: tuple[str, ...]
     spec: str
     top: str | None = None
     params: tuple[tuple[str, tuple[int, ...]], ...] = ()
     require: str = "complete"
-    engine: str = "auto"
-    timeout: float = DEFAULT_TIMEOUT
-    expect: str = "pass"
+    method: str = "auto"
+    time_limit: float = DEFAULT_TIMEOUT
+    deliberately_broken: bool = False
     include_dirs: tuple[str, ...] = ()
     defines: tuple[tuple[str, str | None], ...] = ()
     seed: int = 1
@@ -94,7 +98,7 @@ class Entry:
 
     def options(self) -> dict[str, Any]:
         """The options that decide the outcome (part of the cache key)."""
-        return {"engine": self.engine, "require": self.require, "timeout": self.timeout,
+        return {"method": self.method, "require": self.require, "time_limit": self.time_limit,
                 "seed": self.seed, "vectors": self.vectors,
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
                 "include_dirs": list(self.include_dirs), "defines": dict(self.defines)}
@@ -183,6 +187,9 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         return InputError(f"{label}: key '{key}': {msg}", f"{path}:{n}" if n else where)
 
     for key in table:
+        if key in RENAMED and key not in KEYS:
+            new, example = RENAMED[key]
+            raise bad(key, f"this key is now called '{new}': write {example}")
         if key not in KEYS:
             close = [k for k in KEYS if _similar(k, key)]
             hint = f" (did you mean '{close[0]}'?)" if close else f" (known keys: {', '.join(KEYS)})"
@@ -197,23 +204,23 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
     if any(c in name for c in "\n\r\t"):
         raise bad("name", "must be on one line")
 
-    files = table["files"]
+    files = table["sources"]
     if isinstance(files, str):
-        raise bad("files", f'must be a list of paths, e.g. files = ["{files}"]')
+        raise bad("sources", f'must be a list of paths, e.g. sources = ["{files}"]')
     if not isinstance(files, list) or not files or not all(isinstance(f, str) and f.strip() for f in files):
-        raise bad("files", "must be a non-empty list of paths")
+        raise bad("sources", "must be a non-empty list of paths")
     root = path.parent
     for f in files:
         p = root / f
         if not p.is_file():
-            raise bad("files", f"no such file '{f}' (paths are relative to the manifest's folder)")
+            raise bad("sources", f"no such file '{f}' (paths are relative to the manifest's folder)")
         if p.suffix not in (".json", *_VERILOG):
-            raise bad("files", f"'{f}': unknown design format (expected .json, .v or .sv)")
+            raise bad("sources", f"'{f}': unknown design format (expected .json, .v or .sv)")
     kinds = {Path(f).suffix == ".json" for f in files}
     if kinds == {True} and len(files) > 1:
-        raise bad("files", "give one JSON netlist per entry")
+        raise bad("sources", "give one JSON netlist per entry")
     if len(kinds) > 1:
-        raise bad("files", "give either one JSON netlist or Verilog files, not both")
+        raise bad("sources", "give either one JSON netlist or Verilog files, not both")
     is_json = kinds == {True}
 
     spec = table["spec"]
@@ -279,9 +286,12 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         used = [k for k in ("top", "params", "include_dirs", "defines") if table.get(k)]
         raise bad(used[0], "applies to Verilog files only; this entry is a JSON netlist")
 
-    timeout = table.get("timeout", DEFAULT_TIMEOUT)
+    timeout = table.get("time_limit", DEFAULT_TIMEOUT)
     if isinstance(timeout, bool) or not isinstance(timeout, (int, float)) or not timeout > 0:
-        raise bad("timeout", f"must be a positive number of seconds, got {timeout!r}")
+        raise bad("time_limit", f"must be a positive number of seconds, got {timeout!r}")
+    broken = table.get("deliberately_broken", False)
+    if not isinstance(broken, bool):
+        raise bad("deliberately_broken", f"must be true or false, got {broken!r}")
 
     seed = whole("seed", 0)
     key_where = []
@@ -290,9 +300,9 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         if n:
             key_where.append((key, f"{path}:{n}"))
     return Entry(
-        name=name, files=tuple(files), spec=spec, top=top, params=tuple(params),
-        require=choice("require", REQUIRES, "complete"), engine=choice("engine", ENGINES, "auto"),
-        timeout=float(timeout), expect=choice("expect", EXPECTS, "pass"),
+        name=name, sources=tuple(files), spec=spec, top=top, params=tuple(params),
+        require=choice("require", REQUIRES, "complete"), method=choice("method", ENGINES, "auto"),
+        time_limit=float(timeout), deliberately_broken=broken,
         include_dirs=tuple(include_dirs), defines=tuple(defines),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
         exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
@@ -323,7 +333,7 @@ def label(name: str, point: dict[str, int]) -> str:
 def entry_files(entry: Entry, root: Path) -> list[Path]:
     """The files an entry's design may be read from (see ``verify.manifest.cache.dependencies``)."""
     from verify.manifest.cache import dependencies
-    return dependencies([root / f for f in entry.files], [root / d for d in entry.include_dirs])
+    return dependencies([root / f for f in entry.sources], [root / d for d in entry.include_dirs])
 
 
 def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dict[str, str]]:
@@ -333,11 +343,11 @@ def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dic
     return make_key(files, point, entry.spec, entry.options()), files
 
 
-def meets(verdict: str, require: str, expect: str) -> int:
+def meets(verdict: str, require: str, deliberately_broken: bool) -> int:
     """The exit code of one result against its manifest entry (0 meets it)."""
     if verdict == "error":
         return 2
-    if expect == "fail":
+    if deliberately_broken:
         if verdict == "fail":
             return 0
         if verdict in ("proven", "exhaustive"):
@@ -361,14 +371,14 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
     started = time.perf_counter()
     _forget_stale_trees(entry, root)
     base = {"name": entry.name, "params": dict(point), "label": label(entry.name, point),
-            "files": list(entry.files), "spec": entry.spec, "require": entry.require,
-            "expect": entry.expect, "engine": entry.engine}
+            "sources": list(entry.sources), "spec": entry.spec, "require": entry.require,
+            "deliberately_broken": entry.deliberately_broken, "method": entry.method}
     try:
-        design = load([root / f for f in entry.files], top=entry.top, params=point or None,
+        design = load([root / f for f in entry.sources], top=entry.top, params=point or None,
                       include_dirs=[str(root / d) for d in entry.include_dirs],
                       defines=dict(entry.defines) or None)
-        result = check(design, entry.spec, engine=entry.engine, seed=entry.seed,
-                       vectors=entry.vectors, timeout=entry.timeout, require=entry.require,
+        result = check(design, entry.spec, engine=entry.method, seed=entry.seed,
+                       vectors=entry.vectors, timeout=entry.time_limit, require=entry.require,
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
     except InputError as e:
         fault = manifest_fault(e)
@@ -422,7 +432,7 @@ def _forget_stale_trees(entry: Entry, root: Path) -> None:
     Python loop over commits). Comparing every dependency's hash with the last one seen here
     keeps parameter sweeps fast (one parse per entry) and never checks a stale design.
     """
-    if not any(Path(f).suffix in _VERILOG for f in entry.files):
+    if not any(Path(f).suffix in _VERILOG for f in entry.sources):
         return
     try:
         from verify.formats.verilog import reader
@@ -432,7 +442,7 @@ def _forget_stale_trees(entry: Entry, root: Path) -> None:
     if not isinstance(trees, dict):
         return
     from verify.manifest.cache import file_hashes
-    ident = tuple(str((root / f).resolve()) for f in entry.files)
+    ident = tuple(str((root / f).resolve()) for f in entry.sources)
     now = file_hashes(entry_files(entry, root), root)
     if _SEEN_DEPS.get(ident) != now:  # first sight (trees of unknown age) or a changed file
         trees.clear()
@@ -446,7 +456,7 @@ def _finish(record: dict[str, Any], *, cached: bool, seconds: float, key: str | 
     out["seconds"] = seconds
     out["key"] = key
     out["file_hashes"] = files
-    out["exit_code"] = meets(out["verdict"], out["require"], out["expect"])
+    out["exit_code"] = meets(out["verdict"], out["require"], out["deliberately_broken"])
     out["ok"] = out["exit_code"] == 0
     out["status"] = status_word(out)
     return out
@@ -460,7 +470,7 @@ def status_word(record: dict[str, Any]) -> str:
     if code == 2:
         return "error"
     if code == 1:
-        return "unexpected pass" if record["expect"] == "fail" else "counterexample"
+        return "unexpected pass" if record["deliberately_broken"] else "counterexample"
     if record["verdict"] == "tested":
         return "weaker than required"
     return "undecided"
@@ -533,9 +543,11 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
               same_as: str | None = None) -> None:
         nonlocal done
         base = dict(result)
-        # the entry's interpretation may differ (expect, name) without changing the verdict
-        base.update(name=e.name, params=dict(p), label=label(e.name, p), expect=e.expect,
-                    require=e.require, engine=e.engine, files=list(e.files), spec=e.spec)
+        # the entry's interpretation may differ (deliberately_broken, name) without changing the
+        # verdict
+        base.update(name=e.name, params=dict(p), label=label(e.name, p),
+                    deliberately_broken=e.deliberately_broken, require=e.require, method=e.method,
+                    sources=list(e.sources), spec=e.spec)
         if same_as is not None:
             base["same_as"] = same_as
         if base.get("error_key"):  # an entry's own manifest line, not its twin's

@@ -66,11 +66,11 @@ def problem_text(record: dict[str, Any]) -> str | None:
     if status == "counterexample":
         return "counterexample " + (counterexample_text(record) or "")
     if status == "unexpected pass":
-        return (f"expected a counterexample (expect = \"fail\") but the design is "
+        return (f"expected a counterexample (deliberately_broken = true) but the design is "
                 f"{record['verdict']}: {record.get('coverage', '')}")
     if status == "weaker than required":
         return f"{record.get('coverage', '')}; require = \"complete\" asks for proven or exhaustive"
-    if record["expect"] == "fail":
+    if record["deliberately_broken"]:
         return "expected a counterexample, none was established: " + _evidence(record)
     return _evidence(record)
 
@@ -87,7 +87,7 @@ def _time(record: dict[str, Any]) -> str:
 
 def headline(summary) -> str:
     n = len(summary.records)
-    caught = sum(1 for r in summary.records if r["ok"] and r["expect"] == "fail")
+    caught = sum(1 for r in summary.records if r["ok"] and r["deliberately_broken"])
     cached = sum(1 for r in summary.records if r["cached"])
     parts = []
     for status, count in summary.counts.items():
@@ -104,7 +104,7 @@ def render_table(summary) -> str:
     rows = [("design", "params", "verdict", "engines", "time", "result")]
     for r in summary.records:
         mark = "ok" if r["ok"] else r["status"].upper()
-        if r["ok"] and r["expect"] == "fail":
+        if r["ok"] and r["deliberately_broken"]:
             mark = "ok (expected fail)"
         rows.append((r["name"], params_text(r["params"]), _VERDICT_WORD.get(r["verdict"], r["verdict"]),
                      engines_text(r), _time(r), mark))
@@ -116,7 +116,7 @@ def render_table(summary) -> str:
         if n == 0:
             lines.append("  ".join("-" * w for w in widths))
     caught = [(r["label"], counterexample_text(r)) for r in summary.records
-              if r["ok"] and r["expect"] == "fail" and r.get("counterexample")]
+              if r["ok"] and r["deliberately_broken"] and r.get("counterexample")]
     if caught:
         lines.append("")
         lines.append("broken on purpose, caught with these counterexamples:")
@@ -142,9 +142,10 @@ def render_json(summary) -> dict[str, Any]:
             "name": r["name"], "params": r["params"], "ok": r["ok"], "verdict": r["verdict"],
             "status": r["status"], "exit_code": r["exit_code"], "cached": r["cached"],
             "seconds": round(r["seconds"], 6), "checked_seconds": round(r["checked_seconds"], 6),
-            "expect": r["expect"], "require": r["require"], "engine": r["engine"],
+            "deliberately_broken": r["deliberately_broken"], "require": r["require"],
+            "method": r["method"],
             "engines": r["engines"], "coverage": r.get("coverage"), "spec": r["spec"],
-            "files": r["files"], "file_hashes": r.get("file_hashes", {}),
+            "sources": r["sources"], "file_hashes": r.get("file_hashes", {}),
             "design_hash": r.get("design_hash"), "cache_key": r.get("key"),
             "counterexample": r.get("counterexample"), "error": r.get("error"),
             "same_as": r.get("same_as"),
@@ -211,7 +212,7 @@ def render_junit(summary, suite_name: str | None = None) -> str:
 def _details(r: dict[str, Any]) -> str:
     lines = [f"verdict: {r['verdict']}{' (from the cache)' if r['cached'] else ''}",
              f"meets the manifest: {'yes' if r['ok'] else 'no'} ({r['status']})",
-             f"spec: {r['spec']}", f"files: {', '.join(r['files'])}"]
+             f"spec: {r['spec']}", f"sources: {', '.join(r['sources'])}"]
     if r.get("coverage"):
         lines.append(f"coverage: {r['coverage']}")
     for e in r.get("engines", []):
@@ -242,7 +243,7 @@ def render_markdown(summary) -> str:
         lines.append("|---|---|---|---|---|---|")
         for r in shown:
             sign = "✅" if r["ok"] else "❌"
-            verdict = r["verdict"] + (" (expected)" if r["ok"] and r["expect"] == "fail" else "")
+            verdict = r["verdict"] + (" (expected)" if r["ok"] and r["deliberately_broken"] else "")
             if not r["ok"]:
                 verdict = f"**{verdict}**"
             lines.append(f"| {sign} | `{_md(r['name'])}` | {_md(params_text(r['params']))} | "
