@@ -161,7 +161,7 @@ def test_a_failure_is_shrunk_to_a_small_counterexample():
     assert r.verdict is Verdict.FAIL and r.exit_code == 1
     cex = r.counterexample
     assert_really_wrong(d, cex)
-    found = r.extras["found_counterexample"]["inputs"]
+    found = r.found_counterexample.inputs
     bits = lambda v: sum(bin(x).count("1") for x in v.values())  # noqa: E731
     assert bits(cex.inputs) < bits(found)
     # at the most: 16 propagating bits, and a carry rippling from cin through bits 0..19
@@ -180,7 +180,7 @@ def test_a_passing_shard_is_only_a_part_never_the_exhaustive_verdict():
     d = ripple(8)
     r = verify.check(d, ADD, engine="exhaustive", shard=(2, 4))
     assert r.verdict is Verdict.TESTED and r.exit_code == 0
-    assert r.extras["shard"]["vectors"] == 2 ** 17 // 4
+    assert r.shard.vectors == 2 ** 17 // 4
     assert "adder-verify merge" in r.coverage
     assert verify.check(d, ADD, engine="exhaustive", shard=(2, 4), require="complete").exit_code == 3
     assert verify.check(d, ADD, engine="exhaustive", shard=(1, 1)).verdict is Verdict.EXHAUSTIVE

@@ -22,7 +22,7 @@ from typing import Callable
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT, Options
 from verify.errors import InputError
 from verify.model.netlist import Netlist
-from verify.model.result import CheckResult, EngineOutcome, Require, Verdict, combine
+from verify.model.result import CheckResult, EngineOutcome, Require, ShardPart, Verdict, combine
 
 ENGINE_NAMES = ("auto", "exhaustive", "smt", "random")
 #: how many random vectors auto runs before the complete engine
@@ -126,15 +126,15 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     verdict, cex = combine(outcomes)
     if engine == "auto" and verdict is Verdict.TESTED:
         verdict = Verdict.UNDECIDED  # the complete engine was asked and gave no answer
-    extras: dict = {}
+    found = shard_part = None
     if cex is not None and shrink:
         from verify.engines.shrink import shrink as shrink_cex
         small = shrink_cex(design, the_spec, cex)
         if small != cex:
-            extras["found_counterexample"] = cex.to_json()
+            found = cex
         cex = small
     if shard is not None and outcomes[0].details.get("shard"):
-        extras["shard"] = outcomes[0].details["shard"]
+        shard_part = ShardPart(**outcomes[0].details["shard"])
         if verdict is Verdict.EXHAUSTIVE and shard[1] > 1:
             verdict = Verdict.TESTED  # one part of the space: 'adder-verify merge' gives the whole
     return CheckResult(
@@ -143,4 +143,5 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
                "outputs": {p.name: p.width for p in design.outputs}},
         gate_count=len(design.gates), spec=the_spec.text, spec_inferred=the_spec.inferred,
         engines=outcomes, verdict=verdict, require=require, counterexample=cex,
-        seconds=time.perf_counter() - started, origin=design.origin, extras=extras)
+        seconds=time.perf_counter() - started, origin=design.origin,
+        found_counterexample=found, shard=shard_part)

@@ -4,7 +4,7 @@ For the lead's ``adder-verify check`` (after shrinking)::
 
     findings = diagnose.diagnose(design, spec, result.counterexample,
                                  vcd_path=opt_vcd, dot_path=opt_dot, log_dir=log_dir)
-    result.extras.update({"suspects": findings["suspects"], "vcd": findings["vcd"], ...})
+    result.diagnosis = Diagnosis(suspects=findings["suspects"], vcd=findings["vcd"], ...)
     lines = diagnose.render_text(design, spec, result.counterexample, findings)
 
 ``explain(design, spec, inputs)`` does the same for one input vector of the user's choosing (it
@@ -26,7 +26,7 @@ from verify.diagnosis.reference import AdderModel
 from verify.errors import InputError
 from verify.files import write_text
 from verify.model.netlist import CONSTANTS, Netlist
-from verify.model.result import Counterexample
+from verify.model.result import Counterexample, Diagnosis
 from verify.sim import values_at
 
 _FILE_LINE = re.compile(r"^(?P<where>\S+:\d+) (?P<inst>\S.*)$")
@@ -68,7 +68,7 @@ def diagnose(design: Netlist, spec, counterexample: Counterexample, *,
 def attach(result, design: Netlist, spec=None, *, vcd_path: str | Path | None = None,
            dot_path: str | Path | None = None, log_dir: str | Path | None = None) -> list[str]:
     """For ``adder-verify check``: diagnose ``result.counterexample`` (when there is one), put
-    ``suspects``, ``vcd``, ``dot``, ``svg`` and ``diagnosis`` into ``result.extras`` (so they
+    a typed ``Diagnosis`` (suspects, files, findings) into ``result.diagnosis`` (so they
     reach ``--json``) and return the lines for the text report (empty when nothing failed).
 
     ``spec`` is what ``check`` was given (text, a Spec, or None for the inferred one).
@@ -81,13 +81,10 @@ def attach(result, design: Netlist, spec=None, *, vcd_path: str | Path | None = 
     the_spec = resolve_spec(design, spec)
     findings = diagnose(design, the_spec, cex, vcd_path=vcd_path, dot_path=dot_path,
                         log_dir=log_dir)
-    result.extras["suspects"] = findings["suspects"]
-    result.extras["vcd"] = findings["vcd"]
-    if findings["dot"]:
-        result.extras["dot"] = findings["dot"]
-        result.extras["svg"] = findings["svg"]
-    result.extras["diagnosis"] = {k: v for k, v in findings.items()
-                                  if k not in ("suspects", "vcd", "dot", "svg")}
+    result.diagnosis = Diagnosis(
+        suspects=findings["suspects"], vcd=findings["vcd"], dot=findings["dot"],
+        svg=findings["svg"] if findings["dot"] else None,
+        details={k: v for k, v in findings.items() if k not in ("suspects", "vcd", "dot", "svg")})
     return render_text(design, the_spec, cex, findings)
 
 

@@ -13,9 +13,13 @@ undecided  no engine established anything (timeout, solver unknown, too large)  
 error         bad input: nothing was checked                                         2
 ============  =====================================================================  ====
 
-Engine statuses: ``pass`` (the engine established what its evidence says), ``fail`` (it found a
-counterexample), ``undecided`` (it stopped without an answer: timeout, unknown, limit) and
-``skipped`` (not run, with the reason in its evidence).
+Engine statuses (``Status``): ``pass`` (the engine established what its evidence says),
+``fail`` (it found a counterexample), ``undecided`` (it stopped without an answer: timeout,
+unknown, limit) and ``skipped`` (not run, with the reason in its evidence).
+
+``CheckResult.to_json`` is the one place a result becomes JSON (``--json``, reports, the run
+log's counterexample); every field a later stage adds (diagnosis, shard range) is a typed field
+here, never an untyped dictionary edited in place.
 """
 
 from __future__ import annotations
@@ -38,6 +42,18 @@ class Verdict(str, Enum):
 
 
 COMPLETE = (Verdict.PROVEN, Verdict.EXHAUSTIVE)
+
+
+class Status(str, Enum):
+    """What one engine did."""
+
+    PASS = "pass"
+    FAIL = "fail"
+    UNDECIDED = "undecided"
+    SKIPPED = "skipped"
+
+    def __str__(self) -> str:  # pragma: no cover - trivial
+        return self.value
 
 #: the cautions every verdict carries
 SCOPE_NOTE = (
@@ -84,22 +100,61 @@ class Counterexample:
 class EngineOutcome:
     """What one engine established, in one sentence (``evidence``), with its figures."""
 
-    engine: str  # exhaustive | smt | random
-    status: str  # pass | fail | undecided | skipped
+    engine: str  # exhaustive | smt | random | ...
+    status: Status
     seconds: float
     evidence: str
     vectors: int | None = None  # how many input vectors were simulated, where that applies
     counterexample: Counterexample | None = None
     details: dict[str, Any] = field(default_factory=dict)
 
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "status", Status(self.status))  # refuses an unknown status
+
     def to_json(self) -> dict[str, Any]:
-        out: dict[str, Any] = {"engine": self.engine, "status": self.status,
+        out: dict[str, Any] = {"engine": self.engine, "status": self.status.value,
                                "seconds": round(self.seconds, 6), "evidence": self.evidence}
         if self.vectors is not None:
             out["vectors"] = self.vectors
         if self.counterexample is not None:
             out["counterexample"] = self.counterexample.to_json()
         out.update(self.details)
+        return out
+
+
+@dataclass(frozen=True)
+class ShardPart:
+    """The part of the exhaustive input space one shard covered (vectors first..last)."""
+
+    index: int
+    count: int
+    first: int
+    last: int
+    vectors: int
+
+    def to_json(self) -> dict[str, int]:
+        return {"index": self.index, "count": self.count, "first": self.first, "last": self.last,
+                "vectors": self.vectors}
+
+
+@dataclass
+class Diagnosis:
+    """What the diagnosis of a failure found: advice for a person, never a verdict."""
+
+    #: ranked suspects, most likely first (JSON-ready records)
+    suspects: list[dict[str, Any]] = field(default_factory=list)
+    #: files written: the waveform, the cone picture (DOT and SVG)
+    vcd: str | None = None
+    dot: str | None = None
+    svg: str | None = None
+    #: the rest of the findings (trace, bit table, model, notes), JSON-ready
+    details: dict[str, Any] = field(default_factory=dict)
+
+    def to_json(self) -> dict[str, Any]:
+        out: dict[str, Any] = {"suspects": self.suspects, "vcd": self.vcd}
+        if self.dot:
+            out["dot"], out["svg"] = self.dot, self.svg
+        out["diagnosis"] = self.details
         return out
 
 
@@ -119,8 +174,12 @@ class CheckResult:
     counterexample: Counterexample | None = None
     seconds: float = 0.0
     origin: str | None = None
-    #: more findings attached by later stages (diagnosis: suspects, vcd; shards; parameters)
-    extras: dict[str, Any] = field(default_factory=dict)
+    #: the counterexample as found, when shrinking made it smaller
+    found_counterexample: Counterexample | None = None
+    #: the part of the input space a shard covered
+    shard: ShardPart | None = None
+    #: the diagnosis of a failure, attached by verify.diagnosis
+    diagnosis: Diagnosis | None = None
 
     @property
     def ok(self) -> bool:
@@ -141,10 +200,10 @@ class CheckResult:
         if v is Verdict.EXHAUSTIVE:
             return (f"all 2^{bits} = {2 ** bits:,} input combinations simulated; every output "
                     f"equals the spec")
-        if v is Verdict.TESTED and "shard" in self.extras:
-            sh = self.extras["shard"]
-            return (f"shard {sh['index']}/{sh['count']}: vectors {sh['first']:,}..{sh['last']:,} of "
-                    f"the 2^{bits} simulated, all matched; 'adder-verify merge' over all {sh['count']} "
+        if v is Verdict.TESTED and self.shard is not None:
+            sh = self.shard
+            return (f"shard {sh.index}/{sh.count}: vectors {sh.first:,}..{sh.last:,} of "
+                    f"the 2^{bits} simulated, all matched; 'adder-verify merge' over all {sh.count} "
                     f"shards gives the exhaustive verdict")
         if v is Verdict.TESTED:
             n = sum(e.vectors or 0 for e in self.engines if e.status == "pass")
@@ -174,7 +233,12 @@ class CheckResult:
         }
         if self.counterexample is not None:
             out["counterexample"] = self.counterexample.to_json()
-        out.update(self.extras)
+        if self.found_counterexample is not None:
+            out["found_counterexample"] = self.found_counterexample.to_json()
+        if self.shard is not None:
+            out["shard"] = self.shard.to_json()
+        if self.diagnosis is not None:
+            out.update(self.diagnosis.to_json())
         return out
 
 
@@ -206,9 +270,9 @@ def combine(outcomes: list[EngineOutcome]) -> tuple[Verdict, Counterexample | No
     out after random testing passed) leaves the verdict undecided: see ``check.check``.
     """
     for e in outcomes:
-        if e.status == "fail":
+        if e.status is Status.FAIL:
             return Verdict.FAIL, e.counterexample
-    passed = {e.engine for e in outcomes if e.status == "pass"}
+    passed = {e.engine for e in outcomes if e.status is Status.PASS}
     if "smt" in passed:
         return Verdict.PROVEN, None
     if "exhaustive" in passed:
