@@ -119,24 +119,24 @@ spec = "{ADD}"
 
 def test_second_run_comes_from_the_cache_and_no_cache_checks_again(repo):
     first = gate.run(repo / "verify.toml")
-    assert [r["cached"] for r in first.records] == [False, False]
-    assert [r["verdict"] for r in first.records] == ["exhaustive", "exhaustive"]
+    assert [r.cached for r in first.records] == [False, False]
+    assert [r.verdict for r in first.records] == ["exhaustive", "exhaustive"]
     second = gate.run(repo / "verify.toml")
-    assert [r["cached"] for r in second.records] == [True, True]
-    assert [r["verdict"] for r in second.records] == ["exhaustive", "exhaustive"]
-    assert [r["key"] for r in second.records] == [r["key"] for r in first.records]
+    assert [r.cached for r in second.records] == [True, True]
+    assert [r.verdict for r in second.records] == ["exhaustive", "exhaustive"]
+    assert [r.key for r in second.records] == [r.key for r in first.records]
     third = gate.run(repo / "verify.toml", use_cache=False)
-    assert [r["cached"] for r in third.records] == [False, False]
+    assert [r.cached for r in third.records] == [False, False]
 
 
 def test_changing_one_file_misses_only_its_entry(repo):
     gate.run(repo / "verify.toml")
     (repo / "rtl" / "add6.json").write_text(dumps(rewire(ripple(6), "sum[2]", op="or")))
     again = gate.run(repo / "verify.toml")
-    assert [r["cached"] for r in again.records] == [True, False]
-    assert [r["verdict"] for r in again.records] == ["exhaustive", "fail"]
+    assert [r.cached for r in again.records] == [True, False]
+    assert [r.verdict for r in again.records] == ["exhaustive", "fail"]
     # the failure is definite, so it is cached too
-    assert gate.run(repo / "verify.toml").records[1]["cached"] is True
+    assert gate.run(repo / "verify.toml").records[1].cached is True
 
 
 def test_changing_an_option_or_the_spec_misses(repo):
@@ -144,9 +144,9 @@ def test_changing_an_option_or_the_spec_misses(repo):
     text = (repo / "verify.toml").read_text()
     write_manifest(repo, text.replace(f'spec = "{ADD}"\n', f'spec = "{ADD}"\ntime_limit = 30\n', 1))
     again = gate.run(repo / "verify.toml")
-    assert [r["cached"] for r in again.records] == [False, True]
+    assert [r.cached for r in again.records] == [False, True]
     write_manifest(repo, text.replace(ADD, "{cout, sum} = cin + a + b"))
-    assert [r["cached"] for r in gate.run(repo / "verify.toml").records] == [False, False]
+    assert [r.cached for r in gate.run(repo / "verify.toml").records] == [False, False]
 
 
 def test_expect_is_read_fresh_from_the_manifest_on_a_hit(repo):
@@ -154,8 +154,8 @@ def test_expect_is_read_fresh_from_the_manifest_on_a_hit(repo):
     text = (repo / "verify.toml").read_text()
     write_manifest(repo, text.replace(f'spec = "{ADD}"\n', f'spec = "{ADD}"\ndeliberately_broken = true\n', 1))
     again = gate.run(repo / "verify.toml")
-    assert again.records[0]["cached"] is True
-    assert again.records[0]["status"] == "unexpected pass" and again.exit_code == 1
+    assert again.records[0].cached is True
+    assert again.records[0].status == "unexpected pass" and again.exit_code == 1
 
 
 def test_a_changed_include_file_changes_the_key(tmp_path):
@@ -177,15 +177,15 @@ params = {{ W = [3, 5] }}
 spec = "{ADD}"
 """)
     first = gate.run(tmp_path / "verify.toml")
-    assert [r["verdict"] for r in first.records] == ["exhaustive", "exhaustive"]
-    assert "inc/larkspur_cfg.vh" in first.records[0]["file_hashes"]
-    assert [r["cached"] for r in gate.run(tmp_path / "verify.toml").records] == [True, True]
+    assert [r.verdict for r in first.records] == ["exhaustive", "exhaustive"]
+    assert "inc/larkspur_cfg.vh" in first.records[0].file_hashes
+    assert [r.cached for r in gate.run(tmp_path / "verify.toml").records] == [True, True]
     (tmp_path / "inc" / "larkspur_cfg.vh").write_text("`define LARKSPUR_EXTRA 1\n")
     again = gate.run(tmp_path / "verify.toml")
-    assert [r["cached"] for r in again.records] == [False, False]
+    assert [r.cached for r in again.records] == [False, False]
     # 1 + a + b + cin is not the spec: Python integers, 1 + 0 + 0 + 0 = 1 != 0
-    assert [r["verdict"] for r in again.records] == ["fail", "fail"]
-    assert {r["key"] for r in again.records}.isdisjoint({r["key"] for r in first.records})
+    assert [r.verdict for r in again.records] == ["fail", "fail"]
+    assert {r.key for r in again.records}.isdisjoint({r.key for r in first.records})
 
 
 def test_a_changed_submodule_file_changes_the_key(tmp_path):

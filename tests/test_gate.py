@@ -176,8 +176,8 @@ def test_a_design_that_cannot_be_read_is_an_error_entry(lib, capsys):
     (lib / "rtl" / "junk.json").write_text('{"format": "verify-netlist/1"')
     m = manifest(lib, entry("good", "rtl/larkspur_add4.json") + entry("junk", "rtl/junk.json"))
     summary = gate.run(m)
-    assert [r["verdict"] for r in summary.records] == ["exhaustive", "error"]
-    assert "junk.json" in summary.records[1]["error"] and summary.exit_code == 2
+    assert [r.verdict for r in summary.records] == ["exhaustive", "error"]
+    assert "junk.json" in summary.records[1].error and summary.exit_code == 2
     xml = ET.fromstring(render_junit(summary))
     assert xml.get("errors") == "1" and xml.find(".//testcase[@name='junk']/error") is not None
 
@@ -230,7 +230,7 @@ def test_markdown_stays_short_for_a_big_manifest(lib):
     md = render_markdown(summary)
     assert "60 more checks met the manifest" in md and "larkspur_bad5" in md
     assert md.count("\n") < 20
-    assert summary.records[1]["cached"] is True  # same file, same options: one key
+    assert summary.records[1].cached is True  # same file, same options: one key
 
 
 def test_parallel_runs_give_the_same_results(lib):
@@ -277,9 +277,9 @@ def test_verilog_entries_at_each_width(tmp_path):
     m = manifest(tmp_path, entry("larkspur_acc", "rtl/larkspur_acc.sv", top="larkspur_acc",
                                  params="{ W = [3, 16, 64] }"))
     summary = gate.run(m)
-    assert [(r["params"], r["verdict"]) for r in summary.records] == [
+    assert [(r.params, r.verdict) for r in summary.records] == [
         ({"W": 3}, "exhaustive"), ({"W": 16}, "proven"), ({"W": 64}, "proven")]
-    assert [r["design"]["inputs"]["a"] for r in summary.records] == [3, 16, 64]
+    assert [r.design["inputs"]["a"] for r in summary.records] == [3, 16, 64]
 
 
 # ---- a git repo going red and green ---------------------------------------------------------
@@ -422,7 +422,7 @@ def test_a_manifest_fault_in_a_twin_entry_names_that_entry(tmp_path):
     m = manifest(tmp_path, entry("one", "a.sv", params="{ Q = 3 }") +
                  entry("two", "a.sv", params="{ Q = 3 }"))
     summary = gate.run(m, use_cache=False)
-    assert [r["error"].split(": ")[:3] for r in summary.records] == [
+    assert [r.error.split(": ")[:3] for r in summary.records] == [
         [f"{m}:5", "design 'one'", "key 'params'"], [f"{m}:11", "design 'two'", "key 'params'"]]
 
 
@@ -480,6 +480,6 @@ def test_an_error_shared_by_identical_entries_is_never_marked_cached(lib):
     text = "".join(f'[[design]]\nname = "{n}"\nsources = ["rtl/larkspur_add4.json"]\n'
                    f'spec = "{{cout, sum}} = a + q"\n\n' for n in ("first", "second"))
     summary = gate.run(manifest(lib, text))
-    assert [r["status"] for r in summary.records] == ["error", "error"]
-    assert [r["cached"] for r in summary.records] == [False, False]
+    assert [r.status for r in summary.records] == ["error", "error"]
+    assert [r.cached for r in summary.records] == [False, False]
     assert summary.exit_code == 2

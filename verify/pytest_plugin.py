@@ -50,8 +50,8 @@ class ManifestFile(pytest.File):
 class EntryNotMet(Exception):
     """An entry that does not meet its manifest; carries the record for the report."""
 
-    def __init__(self, record: dict):
-        super().__init__(record["status"])
+    def __init__(self, record):
+        super().__init__(record.status.value)
         self.record = record
 
 
@@ -61,7 +61,7 @@ class EntryItem(pytest.Item):
         self.manifest = manifest
         self.entry = entry
         self.point = point
-        self.record: dict | None = None
+        self.record = None
         self.add_marker(pytest.mark.adder_verify)
 
     def runtest(self):
@@ -69,16 +69,16 @@ class EntryItem(pytest.Item):
         summary = gate.run(self.manifest, use_cache=not self.config.getoption("verify_no_cache"),
                            only=[self.entry.name], point=self.point)
         self.record = summary.records[0]
-        self.user_properties.append(("verdict", self.record["verdict"]))
-        self.user_properties.append(("cached", str(self.record["cached"]).lower()))
-        if not self.record["ok"]:
+        self.user_properties.append(("verdict", self.record.verdict.value))
+        self.user_properties.append(("cached", str(self.record.cached).lower()))
+        if not self.record.ok:
             raise EntryNotMet(self.record)
 
     def repr_failure(self, excinfo, style=None):
         if isinstance(excinfo.value, EntryNotMet):
             from verify.render.batch import _details, problem_text
             r = excinfo.value.record
-            return f"{r['label']}: {problem_text(r)}\n{_details(r)}"
+            return f"{r.label}: {problem_text(r)}\n{_details(r)}"
         return super().repr_failure(excinfo, style=style)
 
     def reportinfo(self):

@@ -24,8 +24,8 @@ class _PlainProgress:
 
     def __call__(self, event, done, total, record, label):
         if event == "done" and record is not None:
-            how = "cached" if record["cached"] else f"{record['seconds']:.2f} s"
-            click.echo(f"[{done}/{total}] {label}: {record['verdict']} ({how})", err=True)
+            how = "cached" if record.cached else f"{record.seconds:.2f} s"
+            click.echo(f"[{done}/{total}] {label}: {record.verdict} ({how})", err=True)
 
 
 class _RichProgress:
@@ -55,9 +55,9 @@ class _RichProgress:
             return
         self.bar.update(self.task, completed=done, description=label, refresh=True)
         if record is not None:
-            how = "cached" if record["cached"] else f"{record['seconds']:.2f} s"
-            mark = "ok" if record["ok"] else record["status"]
-            self.console.print(f"  {label}: {record['verdict']} ({how}) {mark}", highlight=False,
+            how = "cached" if record.cached else f"{record.seconds:.2f} s"
+            mark = "ok" if record.ok else record.status
+            self.console.print(f"  {label}: {record.verdict} ({how}) {mark}", highlight=False,
                                markup=False)
 
 
@@ -92,9 +92,9 @@ def _report_entry_errors(summary) -> None:
     """One line on stderr per entry that could not be checked (the table lists them too)."""
     shown = set()
     for r in summary.records:
-        if r.get("verdict") != "error":
+        if r.verdict != "error":
             continue
-        line = r["error"] if r.get("error_key") else f"{r['label']}: {r['error']}"
+        line = r.error if r.error_key else f"{r.label}: {r.error}"
         if line not in shown:  # an unknown parameter is the same mistake at every point
             shown.add(line)
             click.echo(f"error: {line}", err=True)

@@ -39,7 +39,8 @@ from typing import Any, Callable, Iterable, Sequence
 
 from verify import __version__
 from verify.errors import InputError
-from verify.model.result import worst_exit_code
+from verify.manifest.records import EntryRecord, meets  # noqa: F401 - meets is re-exported
+from verify.model.result import Verdict, worst_exit_code
 
 try:  # Python 3.11+
     import tomllib as _toml
@@ -343,24 +344,10 @@ def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dic
     return make_key(files, point, entry.spec, entry.options()), files
 
 
-def meets(verdict: str, require: str, deliberately_broken: bool) -> int:
-    """The exit code of one result against its manifest entry (0 meets it)."""
-    if verdict == "error":
-        return 2
-    if deliberately_broken:
-        if verdict == "fail":
-            return 0
-        if verdict in ("proven", "exhaustive"):
-            return 1  # the manifest says broken; an engine established it is correct
-        return 3
-    from verify.model.result import Require, Verdict, exit_code
-    return exit_code(Verdict(verdict), Require(require))
-
-
-def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[str, Any]:
+def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryRecord:
     """Load and check one entry at one parameter point; a record for the reports.
 
-    Runs in worker processes: takes and returns plain, picklable values. Bad input becomes a record
+    Runs in worker processes: takes and returns picklable values. Bad input becomes a record
     with verdict ``error``; anything else escaping is a bug and propagates.
     """
     from verify.check import check
@@ -370,9 +357,9 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
     root = Path(root)
     started = time.perf_counter()
     _forget_stale_trees(entry, root)
-    base = {"name": entry.name, "params": dict(point), "label": label(entry.name, point),
-            "sources": list(entry.sources), "spec": entry.spec, "require": entry.require,
-            "deliberately_broken": entry.deliberately_broken, "method": entry.method}
+    base = dict(name=entry.name, params=dict(point), label=label(entry.name, point),
+                sources=list(entry.sources), spec=entry.spec, require=entry.require,
+                deliberately_broken=entry.deliberately_broken, method=entry.method)
     try:
         design = load([root / f for f in entry.sources], top=entry.top, params=point or None,
                       include_dirs=[str(root / d) for d in entry.include_dirs],
@@ -382,19 +369,18 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
     except InputError as e:
         fault = manifest_fault(e)
-        return {**base, "verdict": "error",
-                "error": str(e) if fault is None else entry_error(entry, *fault),
-                "error_key": fault and fault[0], "error_detail": fault and fault[1],
-                "engines": [], "coverage": "nothing was checked", "counterexample": None,
-                "design_hash": None, "checked_seconds": time.perf_counter() - started}
+        return EntryRecord(**base, verdict=Verdict.ERROR,
+                           error=str(e) if fault is None else entry_error(entry, *fault),
+                           error_key=fault and fault[0], error_detail=fault and fault[1],
+                           checked_seconds=time.perf_counter() - started)
     data = result.to_json()
-    return {**base, "verdict": result.verdict.value, "error": None,
-            "engines": [{"engine": e["engine"], "status": e["status"], "seconds": e["seconds"],
-                         "evidence": e["evidence"], **({"vectors": e["vectors"]} if "vectors" in e else {})}
-                        for e in data["engines"]],
-            "coverage": result.coverage, "counterexample": data.get("counterexample"),
-            "design_hash": result.design_hash, "design": data["design"],
-            "checked_seconds": result.seconds}
+    return EntryRecord(
+        **base, verdict=result.verdict,
+        engines=[{"engine": e["engine"], "status": e["status"], "seconds": e["seconds"],
+                  "evidence": e["evidence"], **({"vectors": e["vectors"]} if "vectors" in e else {})}
+                 for e in data["engines"]],
+        coverage=result.coverage, counterexample=data.get("counterexample"),
+        design_hash=result.design_hash, design=data["design"], checked_seconds=result.seconds)
 
 
 #: the manifest key of each Python API option an entry sets
@@ -449,33 +435,6 @@ def _forget_stale_trees(entry: Entry, root: Path) -> None:
     _SEEN_DEPS[ident] = now
 
 
-def _finish(record: dict[str, Any], *, cached: bool, seconds: float, key: str | None,
-            files: dict[str, str]) -> dict[str, Any]:
-    out = dict(record)
-    out["cached"] = cached
-    out["seconds"] = seconds
-    out["key"] = key
-    out["file_hashes"] = files
-    out["exit_code"] = meets(out["verdict"], out["require"], out["deliberately_broken"])
-    out["ok"] = out["exit_code"] == 0
-    out["status"] = status_word(out)
-    return out
-
-
-def status_word(record: dict[str, Any]) -> str:
-    """What a record means against its entry: met, contradicted, weak or error."""
-    code = record["exit_code"]
-    if code == 0:
-        return "met"
-    if code == 2:
-        return "error"
-    if code == 1:
-        return "unexpected pass" if record["deliberately_broken"] else "counterexample"
-    if record["verdict"] == "tested":
-        return "weaker than required"
-    return "undecided"
-
-
 # ---- a whole run --------------------------------------------------------------------------
 
 @dataclass
@@ -483,7 +442,7 @@ class RunSummary:
     """The outcome of one ``run``: a record per (entry, parameter point), in manifest order."""
 
     manifest: str
-    records: list[dict[str, Any]]
+    records: list[EntryRecord]
     seconds: float
     jobs: int
     cache_used: bool
@@ -494,7 +453,7 @@ class RunSummary:
 
     @property
     def exit_code(self) -> int:
-        return worst_exit_code(r["exit_code"] for r in self.records)
+        return worst_exit_code(r.exit_code for r in self.records)
 
     @property
     def ok(self) -> bool:
@@ -502,7 +461,7 @@ class RunSummary:
 
 
 #: progress(event, done, total, record or None, label) with event "start" or "done"
-Progress = Callable[[str, int, int, "dict[str, Any] | None", str], None]
+Progress = Callable[[str, int, int, "EntryRecord | None", str], None]
 
 
 def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cache: bool = True,
@@ -533,28 +492,26 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
     cache = Cache(Path(cache_dir) if cache_dir is not None else root / CACHE_DIR)
     work = [(e, p) for e in entries for p in e.points() if point is None or p == point]
     total = len(work)
-    records: list[dict[str, Any] | None] = [None] * total
+    records: list[EntryRecord | None] = [None] * total
     pending: list[tuple[int, Entry, dict, str, dict]] = []
     twins: dict[int, list[tuple[int, Entry, dict, dict]]] = {}  # first index -> same-key entries
     first_of: dict[str, int] = {}
     done = 0
 
-    def reuse(i: int, result: dict, e: Entry, p: dict, key: str, files: dict, t0: float,
+    def reuse(i: int, result: EntryRecord, e: Entry, p: dict, key: str, files: dict, t0: float,
               same_as: str | None = None) -> None:
         nonlocal done
-        base = dict(result)
         # the entry's interpretation may differ (deliberately_broken, name) without changing the
         # verdict
-        base.update(name=e.name, params=dict(p), label=label(e.name, p),
-                    deliberately_broken=e.deliberately_broken, require=e.require, method=e.method,
-                    sources=list(e.sources), spec=e.spec)
-        if same_as is not None:
-            base["same_as"] = same_as
-        if base.get("error_key"):  # an entry's own manifest line, not its twin's
-            base["error"] = entry_error(e, base["error_key"], base["error_detail"])
+        record = result.but(name=e.name, params=dict(p), label=label(e.name, p),
+                            deliberately_broken=e.deliberately_broken, require=e.require,
+                            method=e.method, sources=list(e.sources), spec=e.spec,
+                            same_as=same_as if same_as is not None else result.same_as)
+        if record.error_key:  # an entry's own manifest line, not its twin's
+            record.error = entry_error(e, record.error_key, record.error_detail)
         # an error is never stored in the cache, so an entry sharing one is not "cached"
-        records[i] = _finish(base, cached=not base.get("error"), seconds=time.perf_counter() - t0,
-                             key=key, files=files)
+        records[i] = record.but(cached=not record.error, seconds=time.perf_counter() - t0,
+                                key=key, file_hashes=files)
         done += 1
         if progress:
             progress("done", done, total, records[i], label(e.name, p))
@@ -564,7 +521,7 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
         key, files = entry_key(e, p, root)
         hit = cache.get(key, root) if use_cache else None
         if hit is not None:
-            reuse(i, hit["result"], e, p, key, files, t0)
+            reuse(i, EntryRecord.from_json(hit["result"]), e, p, key, files, t0)
         elif key in first_of:  # the same files, parameters, spec and options: check once
             twins.setdefault(first_of[key], []).append((i, e, p, files))
         else:
@@ -573,22 +530,22 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
 
     warnings: list[str] = []
 
-    def store(i: int, record: dict, key: str, files: dict) -> None:
+    def store(i: int, record: EntryRecord, key: str, files: dict) -> None:
         nonlocal done
-        records[i] = _finish(record, cached=False, seconds=record["checked_seconds"], key=key,
-                             files=files)
+        records[i] = record.but(cached=False, seconds=record.checked_seconds, key=key,
+                                file_hashes=files)
         # a fresh definite verdict is recorded even with use_cache=False: that run re-checked it
         try:
-            cache.put(key, files, record)
+            cache.put(key, files, record.to_json())
         except OSError as e:  # a read-only checkout still gets its verdicts, just not cached
             note = f"the result cache in {cache.folder} could not be written ({e.strerror or e}); verdicts are not cached"
             if note not in warnings:
                 warnings.append(note)
         done += 1
         if progress:
-            progress("done", done, total, records[i], records[i]["label"])
+            progress("done", done, total, records[i], records[i].label)
         for j, e, p, f in twins.get(i, []):
-            reuse(j, record, e, p, key, f, time.perf_counter(), same_as=records[i]["label"])
+            reuse(j, record, e, p, key, f, time.perf_counter(), same_as=records[i].label)
 
     if jobs == 1 or len(pending) <= 1:
         for i, e, p, key, files in pending:
@@ -605,6 +562,6 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
     final = [r for r in records if r is not None]
     counts: dict[str, int] = {}
     for r in final:
-        counts[r["status"]] = counts.get(r["status"], 0) + 1
+        counts[r.status.value] = counts.get(r.status.value, 0) + 1
     return RunSummary(str(manifest.path), final, time.perf_counter() - started, jobs, use_cache,
                       counts=counts, warnings=warnings)

@@ -12,20 +12,19 @@ import re
 import xml.etree.ElementTree as ET
 from typing import Any
 
+from verify.manifest.records import EntryRecord
 from verify.model.result import SCOPE_NOTE
 
 JSON_FORMAT = "verify-run/1"
 #: the Markdown summary lists every row up to this many; past it, only rows that need attention
 MARKDOWN_ROWS = 30
 
-_VERDICT_WORD = {"proven": "PROVEN", "exhaustive": "EXHAUSTIVE", "tested": "TESTED",
-                 "fail": "FAIL", "undecided": "UNDECIDED", "error": "ERROR"}
 _EXIT_MEANING = {0: "every entry met its manifest", 1: "a result contradicts the manifest",
                  2: "bad input: an entry could not be read", 3: "undecided or weaker than required"}
 
 
-def engines_text(record: dict[str, Any]) -> str:
-    names = [e["engine"] for e in record.get("engines", []) if e.get("status") != "skipped"]
+def engines_text(record: EntryRecord) -> str:
+    names = [e["engine"] for e in record.engines if e.get("status") != "skipped"]
     return "+".join(names) or "-"
 
 
@@ -33,9 +32,9 @@ def params_text(params: dict[str, int]) -> str:
     return " ".join(f"{k}={v}" for k, v in params.items()) or "-"
 
 
-def counterexample_text(record: dict[str, Any]) -> str | None:
+def counterexample_text(record: EntryRecord) -> str | None:
     """One line: the inputs, then each wrong output with expected and actual values."""
-    cex = record.get("counterexample")
+    cex = record.counterexample
     if not cex:
         return None
     ins = " ".join(f"{k}={_hex(v)}" for k, v in cex["inputs"].items())
@@ -56,39 +55,39 @@ def _hex(v: int | None) -> str:
     return str(v) if v < 10 else f"{v:#x}"
 
 
-def problem_text(record: dict[str, Any]) -> str | None:
+def problem_text(record: EntryRecord) -> str | None:
     """Why a record does not meet its entry, in one line (None when it does)."""
-    status = record["status"]
-    if record["ok"]:
+    status = record.status
+    if record.ok:
         return None
     if status == "error":
-        return record.get("error") or "could not be read"
+        return record.error or "could not be read"
     if status == "counterexample":
         return "counterexample " + (counterexample_text(record) or "")
     if status == "unexpected pass":
         return (f"expected a counterexample (deliberately_broken = true) but the design is "
-                f"{record['verdict']}: {record.get('coverage', '')}")
+                f"{record.verdict}: {(record.coverage or '')}")
     if status == "weaker than required":
-        return f"{record.get('coverage', '')}; require = \"complete\" asks for proven or exhaustive"
-    if record["deliberately_broken"]:
+        return f"{(record.coverage or '')}; require = \"complete\" asks for proven or exhaustive"
+    if record.deliberately_broken:
         return "expected a counterexample, none was established: " + _evidence(record)
     return _evidence(record)
 
 
-def _evidence(record: dict[str, Any]) -> str:
-    parts = [f"{e['engine']}: {e['evidence']}" for e in record.get("engines", [])
+def _evidence(record: EntryRecord) -> str:
+    parts = [f"{e['engine']}: {e['evidence']}" for e in record.engines
              if e.get("status") in ("undecided", "skipped")]
-    return "; ".join(parts) or record.get("coverage", "no engine established the spec")
+    return "; ".join(parts) or (record.coverage or "no engine established the spec")
 
 
-def _time(record: dict[str, Any]) -> str:
-    return "cached" if record["cached"] else f"{record['seconds']:.2f} s"
+def _time(record: EntryRecord) -> str:
+    return "cached" if record.cached else f"{record.seconds:.2f} s"
 
 
 def headline(summary) -> str:
     n = len(summary.records)
-    caught = sum(1 for r in summary.records if r["ok"] and r["deliberately_broken"])
-    cached = sum(1 for r in summary.records if r["cached"])
+    caught = sum(1 for r in summary.records if r.ok and r.deliberately_broken)
+    cached = sum(1 for r in summary.records if r.cached)
     parts = []
     for status, count in summary.counts.items():
         note = f" ({caught} broken on purpose and caught)" if status == "met" and caught else ""
@@ -103,10 +102,10 @@ def headline(summary) -> str:
 def render_table(summary) -> str:
     rows = [("design", "params", "verdict", "engines", "time", "result")]
     for r in summary.records:
-        mark = "ok" if r["ok"] else r["status"].upper()
-        if r["ok"] and r["deliberately_broken"]:
+        mark = "ok" if r.ok else r.status.value.upper()
+        if r.ok and r.deliberately_broken:
             mark = "ok (expected fail)"
-        rows.append((r["name"], params_text(r["params"]), _VERDICT_WORD.get(r["verdict"], r["verdict"]),
+        rows.append((r.name, params_text(r.params), r.verdict.value.upper(),
                      engines_text(r), _time(r), mark))
     widths = [max(len(row[i]) for row in rows) for i in range(len(rows[0]))]
     lines = []
@@ -115,14 +114,14 @@ def render_table(summary) -> str:
                                for i, (cell, w) in enumerate(zip(row, widths))).rstrip())
         if n == 0:
             lines.append("  ".join("-" * w for w in widths))
-    caught = [(r["label"], counterexample_text(r)) for r in summary.records
-              if r["ok"] and r["deliberately_broken"] and r.get("counterexample")]
+    caught = [(r.label, counterexample_text(r)) for r in summary.records
+              if r.ok and r.deliberately_broken and r.counterexample]
     if caught:
         lines.append("")
         lines.append("broken on purpose, caught with these counterexamples:")
         for name, text in caught:
             lines.append(f"  {name}: {text}")
-    problems = [(r["label"], problem_text(r)) for r in summary.records if not r["ok"]]
+    problems = [(r.label, problem_text(r)) for r in summary.records if not r.ok]
     if problems:
         lines.append("")
         for name, text in problems:
@@ -139,16 +138,16 @@ def render_json(summary) -> dict[str, Any]:
     entries = []
     for r in summary.records:
         entries.append({
-            "name": r["name"], "params": r["params"], "ok": r["ok"], "verdict": r["verdict"],
-            "status": r["status"], "exit_code": r["exit_code"], "cached": r["cached"],
-            "seconds": round(r["seconds"], 6), "checked_seconds": round(r["checked_seconds"], 6),
-            "deliberately_broken": r["deliberately_broken"], "require": r["require"],
-            "method": r["method"],
-            "engines": r["engines"], "coverage": r.get("coverage"), "spec": r["spec"],
-            "sources": r["sources"], "file_hashes": r.get("file_hashes", {}),
-            "design_hash": r.get("design_hash"), "cache_key": r.get("key"),
-            "counterexample": r.get("counterexample"), "error": r.get("error"),
-            "same_as": r.get("same_as"),
+            "name": r.name, "params": r.params, "ok": r.ok, "verdict": r.verdict.value,
+            "status": r.status.value, "exit_code": r.exit_code, "cached": r.cached,
+            "seconds": round(r.seconds, 6), "checked_seconds": round(r.checked_seconds, 6),
+            "deliberately_broken": r.deliberately_broken, "require": r.require,
+            "method": r.method,
+            "engines": r.engines, "coverage": r.coverage, "spec": r.spec,
+            "sources": r.sources, "file_hashes": r.file_hashes,
+            "design_hash": r.design_hash, "cache_key": r.key,
+            "counterexample": r.counterexample, "error": r.error,
+            "same_as": r.same_as,
         })
     return {"format": JSON_FORMAT, "tool_version": summary.tool_version,
             "manifest": summary.manifest, "ok": summary.ok, "exit_code": summary.exit_code,
@@ -177,8 +176,8 @@ def render_junit(summary, suite_name: str | None = None) -> str:
     weaker-than-required result and an unexpected pass are failures too (the gate is red), with
     their own ``type``; an entry that could not be read is an ``error``.
     """
-    failures = sum(1 for r in summary.records if r["exit_code"] in (1, 3))
-    errors = sum(1 for r in summary.records if r["exit_code"] == 2)
+    failures = sum(1 for r in summary.records if r.exit_code in (1, 3))
+    errors = sum(1 for r in summary.records if r.exit_code == 2)
     total_time = f"{summary.seconds:.3f}"
     root = ET.Element("testsuites", name="adder-verify run", tests=str(len(summary.records)),
                       failures=str(failures), errors=str(errors), time=total_time)
@@ -189,14 +188,14 @@ def render_junit(summary, suite_name: str | None = None) -> str:
     ET.SubElement(props, "property", name="tool_version", value=_x(summary.tool_version))
     ET.SubElement(props, "property", name="exit_code", value=str(summary.exit_code))
     for r in summary.records:
-        case = ET.SubElement(suite, "testcase", classname=_x(f"verify.{r['name']}"),
-                             name=_x(r["label"]), time=f"{r['seconds']:.3f}")
+        case = ET.SubElement(suite, "testcase", classname=_x(f"verify.{r.name}"),
+                             name=_x(r.label), time=f"{r.seconds:.3f}")
         problem = problem_text(r)
-        status = r["status"]
-        if r["exit_code"] == 2:
+        status = r.status
+        if r.exit_code == 2:
             el = ET.SubElement(case, "error", type="input", message=_x(problem))
             el.text = _x(problem)
-        elif r["exit_code"] in (1, 3):
+        elif r.exit_code in (1, 3):
             kind = {"counterexample": "counterexample", "unexpected pass": "unexpected-pass",
                     "weaker than required": "weaker-than-required"}.get(status, "undecided")
             message = counterexample_text(r) if status == "counterexample" else problem
@@ -209,19 +208,19 @@ def render_junit(summary, suite_name: str | None = None) -> str:
             + ET.tostring(root, encoding="unicode") + "\n")
 
 
-def _details(r: dict[str, Any]) -> str:
-    lines = [f"verdict: {r['verdict']}{' (from the cache)' if r['cached'] else ''}",
-             f"meets the manifest: {'yes' if r['ok'] else 'no'} ({r['status']})",
-             f"spec: {r['spec']}", f"sources: {', '.join(r['sources'])}"]
-    if r.get("coverage"):
-        lines.append(f"coverage: {r['coverage']}")
-    for e in r.get("engines", []):
+def _details(r: EntryRecord) -> str:
+    lines = [f"verdict: {r.verdict}{' (from the cache)' if r.cached else ''}",
+             f"meets the manifest: {'yes' if r.ok else 'no'} ({r.status})",
+             f"spec: {r.spec}", f"sources: {', '.join(r.sources)}"]
+    if r.coverage:
+        lines.append(f"coverage: {r.coverage}")
+    for e in r.engines:
         lines.append(f"  {e['engine']}: {e['status']} in {e['seconds']:.3f} s: {e['evidence']}")
     cex = counterexample_text(r)
     if cex:
         lines.append(f"counterexample: {cex}")
-    if r.get("error"):
-        lines.append(f"error: {r['error']}")
+    if r.error:
+        lines.append(f"error: {r.error}")
     return "\n".join(lines)
 
 
@@ -237,27 +236,27 @@ def render_markdown(summary) -> str:
     lines = ["<!-- adder-verify report (markdown) -->",
              f"### {mark} adder-verify: {_md(headline(summary))}", ""]
     records = summary.records
-    shown = records if len(records) <= MARKDOWN_ROWS else [r for r in records if not r["ok"]]
+    shown = records if len(records) <= MARKDOWN_ROWS else [r for r in records if not r.ok]
     if shown:
         lines.append("| | design | params | verdict | engines | time |")
         lines.append("|---|---|---|---|---|---|")
         for r in shown:
-            sign = "✅" if r["ok"] else "❌"
-            verdict = r["verdict"] + (" (expected)" if r["ok"] and r["deliberately_broken"] else "")
-            if not r["ok"]:
+            sign = "✅" if r.ok else "❌"
+            verdict = r.verdict.value + (" (expected)" if r.ok and r.deliberately_broken else "")
+            if not r.ok:
                 verdict = f"**{verdict}**"
-            lines.append(f"| {sign} | `{_md(r['name'])}` | {_md(params_text(r['params']))} | "
+            lines.append(f"| {sign} | `{_md(r.name)}` | {_md(params_text(r.params))} | "
                          f"{verdict} | {_md(engines_text(r))} | {_time(r)} |")
     hidden = len(records) - len(shown)
     if hidden:
         lines.append("")
         lines.append(f"{hidden} more check{'s' if hidden != 1 else ''} met the manifest "
                      f"(see the JSON summary).")
-    problems = [r for r in records if not r["ok"]]
+    problems = [r for r in records if not r.ok]
     if problems:
         lines.append("")
         for r in problems[:MARKDOWN_ROWS]:
-            lines.append(f"- `{_md(r['label'])}`: {_md(problem_text(r) or '')}")
+            lines.append(f"- `{_md(r.label)}`: {_md(problem_text(r) or '')}")
         if len(problems) > MARKDOWN_ROWS:
             lines.append(f"- ... and {len(problems) - MARKDOWN_ROWS} more")
     lines.append("")
