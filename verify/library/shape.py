@@ -28,6 +28,7 @@ from __future__ import annotations
 import re
 from typing import Any
 
+from verify.model.graph import arrival, path_to
 from verify.model.netlist import CONSTANTS, Netlist
 
 _NO_LEVEL = {"buf", "const0", "const1"}
@@ -41,22 +42,10 @@ def stats(netlist: Netlist) -> dict[str, Any]:
     for g in order:
         counts[g.op] = counts.get(g.op, 0) + 1
 
-    level: dict[str, int] = {n: 0 for n in netlist.input_bits}
-    level.update({c: 0 for c in CONSTANTS})
-    came_from: dict[str, str | None] = {n: None for n in level}
-    for g in order:
-        best, via = 0, None
-        for i in g.inputs:
-            if via is None or level[i] > best:
-                best, via = level[i], i
-        level[g.output] = best + (0 if g.op in _NO_LEVEL else 1)
-        came_from[g.output] = via
-    per_output = {b: level[b] for b in netlist.output_bits}
+    level, came_from = arrival(netlist, lambda g: 0 if g.op in _NO_LEVEL else 1)
+    per_output = {b: int(level[b]) for b in netlist.output_bits}
     deepest = max(netlist.output_bits, key=lambda b: per_output[b])  # first one on a tie
-    path = [deepest]
-    while came_from.get(path[-1]) is not None:
-        path.append(came_from[path[-1]])  # type: ignore[arg-type]
-    path.reverse()
+    path = path_to(came_from, deepest)
 
     fan = {n: k for n, k in netlist.fanout.items() if n not in CONSTANTS}
     if fan:
@@ -121,29 +110,32 @@ def prefix_figures(netlist: Netlist) -> dict[str, Any]:
     for n in node_of:
         members.setdefault(unit(n), []).append(n)
 
-    def chain(u: Any) -> int:
-        """Prefix nodes on the longest chain ending at unit u (u included if it is a node)."""
-        if u in memo:
-            return memo[u]
-        nets = members.get(u, [u[1]])
-        best = 0
-        for n in nets:
+    def feeds(u: Any) -> list[Any]:
+        """The units whose nets drive unit u's nets (u itself left out)."""
+        out = []
+        for n in members.get(u, [u[1]]):
             g = driver.get(n)
-            if g is None:
-                continue
-            for i in g.inputs:
+            for i in (g.inputs if g is not None else ()):
                 if i in driver and unit(i) != u:
-                    best = max(best, chain(unit(i)))
-        memo[u] = best + (1 if u[0] == "node" else 0)
-        return memo[u]
+                    out.append(unit(i))
+        return out
 
-    import sys
-    old = sys.getrecursionlimit()
-    sys.setrecursionlimit(max(old, 10 * len(netlist.gates) + 1000))
-    try:
-        depth = max(chain(u) for u in members)
-    finally:
-        sys.setrecursionlimit(old)
+    # prefix nodes on the longest chain ending at each unit (itself included if it is a node),
+    # by an explicit-stack depth-first walk: no recursion, however long the chain
+    for root in members:
+        stack = [root]
+        while stack:
+            u = stack[-1]
+            if u in memo:
+                stack.pop()
+                continue
+            todo = [v for v in feeds(u) if v not in memo]
+            if todo:
+                stack.extend(todo)
+                continue
+            memo[u] = max((memo[v] for v in feeds(u)), default=0) + (1 if u[0] == "node" else 0)
+            stack.pop()
+    depth = max(memo[u] for u in members)
     nodes = set(node_of.values())
     return {"prefix_nodes": len(nodes),
             "prefix_levels": depth if by_name else max(rows.values()),
@@ -151,7 +143,7 @@ def prefix_figures(netlist: Netlist) -> dict[str, Any]:
 
 
 def format_text(s: dict[str, Any]) -> str:
-    """The human-readable form printed by ``adder-verify stats``."""
+    """The human-readable form printed by ``adder-verify shape``."""
     ins = ", ".join(f"{k}[{w - 1}:0]" if w > 1 else k for k, w in s["inputs"].items())
     outs = ", ".join(f"{k}[{w - 1}:0]" if w > 1 else k for k, w in s["outputs"].items())
     ops = ", ".join(f"{op} {k}" for op, k in sorted(s["gates"].items(), key=lambda x: (-x[1], x[0])))
