@@ -166,3 +166,46 @@ def test_the_api_refuses_bad_options_as_input_errors():
         spec = kwargs.pop("spec", None)
         with pytest.raises(InputError):
             verify.check(d, spec, **kwargs)
+
+
+def test_a_folder_checks_designs_only_and_not_subfolders_unless_recursive(tmp_path, capsys,
+                                                                          monkeypatch):
+    """A folder that also holds shard results and notes: only netlists and Verilog are checked."""
+    d = tmp_path / "rtl"
+    (d / "sub").mkdir(parents=True)
+    (d / "good8.json").write_text(json_netlist.dumps(ripple(8)))
+    (d / "shard.1of4.json").write_text('{"ok": true, "verdict": "tested"}\n')
+    (d / "notes.txt").write_text("not a design\n")
+    (d / "sub" / "add4.v").write_text(
+        "module add4(input [3:0] a, b, input cin, output [3:0] sum, output cout);\n"
+        "  assign {cout, sum} = a + b + cin;\nendmodule\n")
+    monkeypatch.chdir(tmp_path)
+    code, out, err = run(["check", str(d), "--no-log"], capsys)
+    assert code == 0, out + err
+    assert "good8" in out and "add4" not in out
+    assert "skipped 2 files that are not designs" in err and "shard.1of4.json" in err
+    code, out, err = run(["check", str(d), "--no-log", "--recursive"], capsys)
+    assert code == 0, out + err
+    assert "add4" in out and "summary:" in out
+
+
+def test_no_log_folder_is_created_outside_a_project(files, capsys, monkeypatch):
+    tmp, good, _ = files
+    work = tmp / "elsewhere"
+    work.mkdir()
+    monkeypatch.chdir(work)
+    from verify.batch import project_log_dir
+    if project_log_dir(work) is not None:  # pragma: no cover - a verify.toml above /tmp
+        pytest.skip("a project folder lies above the test's temporary folder")
+    code, _, err = run(["check", str(good)], capsys)
+    assert code == 0
+    assert not (work / "logs").exists()
+    assert "no run log kept" in err
+    (work / "verify.toml").write_text("")  # now it is a project: logs/ beside the manifest
+    code, _, err = run(["check", str(good)], capsys)
+    assert code == 0 and (work / "logs" / "runs.jsonl").is_file()
+
+
+def test_an_empty_path_names_nothing(capsys):
+    code, _, err = run(["check", "", "--no-log"], capsys)
+    assert code == 2 and err.startswith("error: ") and "empty path" in err

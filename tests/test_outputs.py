@@ -77,3 +77,27 @@ def test_check_refuses_a_hand_written_waveform_path_before_checking(tmp_path, ca
     with pytest.raises(SystemExit) as e:  # an earlier waveform of ours may be replaced
         main(["check", str(bad), "--no-log", "--vcd", str(tmp_path / "w.vcd")])
     assert e.value.code == 1
+
+
+@pytest.mark.parametrize("mask,mode", [(0o022, 0o644), (0o002, 0o664), (0o077, 0o600)])
+def test_written_files_honour_the_umask(tmp_path, mask, mode):
+    """A file the tool writes gets the mode open() would give it (POSIX umask semantics,
+    common practice), so CI artifact uploaders and colleagues can read it."""
+    import os
+    import stat
+
+    from verify.files import write_bytes
+    old = os.umask(mask)
+    try:
+        a = write_text(tmp_path / "design.v", "module m; endmodule\n", what="design")
+        b = write_text(tmp_path / "r.xml", JUNIT.format(1), replace_reports=True)
+        c = write_bytes(tmp_path / "p.png", b"\x89PNG", what="picture")
+        for p in (a, b, c):
+            assert stat.S_IMODE(p.stat().st_mode) == mode, p
+        # the manifest runner's result cache too
+        from verify.manifest.cache import Cache
+        cache = Cache(tmp_path / "cache")
+        cache.put("0" * 64, {}, {"verdict": "proven"})
+        assert stat.S_IMODE((tmp_path / "cache" / ("0" * 64 + ".json")).stat().st_mode) == mode
+    finally:
+        os.umask(old)

@@ -14,6 +14,7 @@ stopped it, and the diagnosis of a failure. Nothing is printed here.
 from __future__ import annotations
 
 import itertools
+import re
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Callable, Mapping, Sequence
@@ -63,24 +64,59 @@ def sweep_points(params: Mapping[str, Sequence[int]] | None) -> list[dict[str, i
     return [dict(zip(names, combo)) for combo in itertools.product(*(params[n] for n in names))] or [{}]
 
 
-def design_files(paths: Sequence[str | Path]) -> list[list[Path]]:
-    """What to check: one design from the files given, or one design per file in a folder."""
-    given = [Path(p) for p in paths]
-    if not given or any(str(p) == "" for p in given):
+#: how a JSON file says it is a netlist of this tool (see verify/formats/json_netlist.py)
+_NETLIST_FORMAT = re.compile(rb'"format"\s*:\s*"verify-netlist/')
+
+
+def _is_design(path: Path) -> bool:
+    """A Verilog file, or a JSON file that declares the netlist format in its first 64 KiB."""
+    if path.suffix in VERILOG_SUFFIXES:
+        return True
+    if path.suffix != ".json":
+        return False
+    try:
+        with path.open("rb") as fh:
+            return bool(_NETLIST_FORMAT.search(fh.read(1 << 16)))
+    except OSError:
+        return False
+
+
+class Checks(list):
+    """The FileCheck records of one call, in order, with notes about what was not checked."""
+
+    def __init__(self, runs=(), notes=()):
+        super().__init__(runs)
+        self.notes: list[str] = list(notes)
+
+
+def design_files(paths: Sequence[str | Path], *, recursive: bool = False
+                 ) -> tuple[list[list[Path]], list[Path]]:
+    """What to check: one design from the files given, or one design per file in a folder.
+
+    In a folder, Verilog files and JSON files that declare the netlist format are designs; other
+    files (shard results, run summaries, notes) are returned as skipped. Subfolders are read only
+    with ``recursive``. Returns (designs, skipped files).
+    """
+    if not paths or any(str(p).strip() == "" for p in paths):  # Path("") would mean "."
         raise InputError("give a design file or a folder (an empty path names nothing)")
+    given = [Path(p) for p in paths]
     if len(given) > 1 and all(p.suffix == ".json" for p in given):
-        return [[p] for p in given]  # each JSON netlist is a design of its own
+        return [[p] for p in given], []  # each JSON netlist is a design of its own
     if len(given) == 1 and given[0].is_dir():
-        files = sorted(p for p in given[0].rglob("*")
-                       if p.is_file() and p.suffix in (".json", *VERILOG_SUFFIXES)
-                       and not any(part.startswith(".") for part in p.relative_to(given[0]).parts))
-        if not files:
-            raise InputError("no .json, .v or .sv design files in this folder", str(given[0]))
-        return [[f] for f in files]
+        folder = given[0]
+        found = folder.rglob("*") if recursive else folder.glob("*")
+        files = sorted(p for p in found if p.is_file()
+                       and not any(part.startswith(".") for part in p.relative_to(folder).parts))
+        designs = [p for p in files if _is_design(p)]
+        skipped = [p for p in files if p not in designs]
+        if not designs:
+            deeper = "" if recursive else " (subfolders are read with --recursive)"
+            raise InputError(f"no Verilog files or JSON netlists in this folder{deeper}", str(folder))
+        return [[f] for f in designs], skipped
     for p in given:
         if p.is_dir():
             raise InputError("give one folder on its own, or design files", str(p))
-    return [given]
+    return [given], []
 
 
 def check_files(paths: Sequence[str | Path], spec=None, *,
@@ -88,25 +124,31 @@ def check_files(paths: Sequence[str | Path], spec=None, *,
                 include_dirs: Sequence[str] = (), defines: Mapping[str, str | None] | None = None,
                 diagnose: bool = True, vcd_path: str | Path | None = None,
                 dot_path: str | Path | None = None, log_dir: str | Path | None = None,
-                progress: Callable[[str, int, int], None] | None = None,
-                **check_options) -> list[FileCheck]:
+                recursive: bool = False, progress: Callable[[str, int, int], None] | None = None,
+                **check_options) -> Checks:
     """Check every design the paths name (a folder: each file in it) at every parameter point.
 
     ``check_options`` go to ``verify.check.check`` (engine, seed, vectors, timeout, require,
     exhaustive_limit, shard...). With one design at one point, an input error is raised; with
     several, it is recorded in that design's ``FileCheck`` and the others are still checked.
-    ``log_dir`` appends each result to ``<log_dir>/runs.jsonl`` (None: no log).
+    ``log_dir`` appends each result to ``<log_dir>/runs.jsonl`` (None: no log). A folder's
+    subfolders are read only with ``recursive``; files in it that are not designs are skipped and
+    named in the returned ``notes``.
     """
     from verify.check import check, resolve_spec
     from verify.formats import load
 
-    units = design_files(paths)
+    units, skipped = design_files(paths, recursive=recursive)
     points = sweep_points(params)
     single = len(units) == 1 and len(points) == 1
     if (vcd_path or dot_path) and not single:
         raise InputError("a waveform or cone file is written for one design at one parameter value",
                          option="vcd" if vcd_path else "dot")
-    runs: list[FileCheck] = []
+    runs = Checks()
+    if skipped:
+        names = ", ".join(p.name for p in skipped[:5]) + (", ..." if len(skipped) > 5 else "")
+        runs.notes.append(f"skipped {len(skipped)} file{'s' if len(skipped) != 1 else ''} that "
+                          f"are not designs (not Verilog, not a JSON netlist): {names}")
     for files in units:
         for point in points:
             run = FileCheck(" ".join(str(f) for f in files), files, dict(point))
@@ -131,6 +173,17 @@ def check_files(paths: Sequence[str | Path], spec=None, *,
                     run.warnings.append(f"could not write the run log in {log_dir}: {e}")
             runs.append(run)
     return runs
+
+
+def project_log_dir(start: str | Path = ".") -> Path | None:
+    """The run log folder of the project around ``start``: ``logs/`` beside the nearest
+    verify.toml or the nearest existing ``logs/`` folder, looking upward; None outside a project
+    (then nothing is logged, and no folder is created)."""
+    here = Path(start).resolve()
+    for folder in (here, *here.parents):
+        if (folder / "logs").is_dir() or (folder / "verify.toml").is_file():
+            return folder / "logs"
+    return None
 
 
 def exit_code(runs: Sequence[FileCheck]) -> int:

@@ -6,7 +6,8 @@ line. A new report may replace an existing file only when that file carries the 
 it is an earlier report of the same kind. Anything else that exists already (a design, a README
 that merely mentions the tool, a design this tool exported) is refused with a one-line error
 unless ``force`` is given. Files are written to a temporary name beside the target and renamed,
-so a failed write leaves the old file whole.
+so a failed write leaves the old file whole; the file gets the permissions the user's umask
+gives a new file (normally 644), not the temporary file's private 600.
 """
 
 from __future__ import annotations
@@ -75,13 +76,36 @@ def write_text(path: str | Path, text: str, *, what: str = "file", force: bool =
     if replace_reports and kind is None:  # pragma: no cover - a writer without its mark
         raise ValueError(f"a report ({what}) must carry its mark in its first lines")
     p = can_write(path, what=what, force=force, replace_reports=replace_reports, kind=kind)
+    return _write_atomically(p, text.encode("utf-8"), what)
+
+
+def write_bytes(path: str | Path, data: bytes, *, what: str = "file", force: bool = False) -> Path:
+    """Write binary ``data`` (a picture) to ``path``; an existing file is kept unless ``force``."""
+    p = can_write(path, what=what, force=force)
+    return _write_atomically(p, data, what)
+
+
+def new_file_mode() -> int:
+    """The permissions ``open()`` would give a new file under the user's umask (normally 644)."""
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return 0o666 & ~mask
+
+
+def _write_atomically(p: Path, data: bytes, what: str) -> Path:
     try:
         if p.parent != Path("") and not p.parent.exists():
             p.parent.mkdir(parents=True, exist_ok=True)
         fd, tmp = tempfile.mkstemp(prefix=f".{p.name}.", dir=str(p.parent or Path(".")))
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            fh.write(text)
-        os.replace(tmp, p)
+        try:
+            with os.fdopen(fd, "wb") as fh:
+                fh.write(data)
+            os.chmod(tmp, new_file_mode())
+            os.replace(tmp, p)
+        except BaseException:
+            if os.path.exists(tmp):
+                os.unlink(tmp)
+            raise
     except OSError as e:
         raise InputError(f"cannot write the {what}: {e.strerror or e}", str(p)) from None
     return p

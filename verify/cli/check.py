@@ -37,8 +37,11 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
 @verilog_options()
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
-@click.option("--log-dir", default="logs", show_default=True, metavar="DIR",
-              help="Where runs.jsonl is appended and a failure's waveform is written.")
+@click.option("--recursive", "-r", is_flag=True, help="With a folder: read its subfolders too.")
+@click.option("--log-dir", metavar="DIR",
+              help="Where runs.jsonl is appended and a failure's waveform is written (default: "
+                   "logs/ beside the nearest verify.toml or logs/ folder, here or above; outside a "
+                   "project nothing is logged).")
 @click.option("--no-log", is_flag=True, help="Do not append to runs.jsonl (nor write a waveform there).")
 @click.option("--vcd", "vcd_path", metavar="FILE", help="On a failure, write the waveform here "
               "(default: a file in the log dir).")
@@ -46,22 +49,31 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
-              params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
-              no_diagnose):
-    from verify.batch import check_files, exit_code
+              params, include_dirs, defines, as_json, recursive, log_dir, no_log, vcd_path,
+              dot_path, no_diagnose):
+    from verify.batch import check_files, exit_code, project_log_dir
 
+    if no_log:
+        log_dir = None
+    elif log_dir is None:
+        log_dir = project_log_dir()
+        if log_dir is None and not as_json:
+            click.echo("note: no run log kept (no verify.toml or logs/ folder here or above); "
+                       "--log-dir DIR keeps one", err=True)
     try:
         check_report_paths(vcd_path, dot_path)
         runs = check_files(
             paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
             defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
-            dot_path=dot_path, log_dir=None if no_log else log_dir, progress=_progress(as_json),
+            dot_path=dot_path, log_dir=log_dir, recursive=recursive, progress=_progress(as_json),
             engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
             exhaustive_limit=exhaustive_limit, shard=parse_shard(shard))
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
         raise
+    for note in runs.notes:
+        click.echo(f"note: {note}", err=True)
     for run in runs:
         for w in run.warnings:
             click.echo(f"warning: {w}", err=True)

@@ -30,6 +30,7 @@ from pathlib import Path
 from typing import Any, Iterable, Mapping, Sequence
 
 from verify import __version__
+from verify.files import new_file_mode
 
 #: verdicts worth keeping: an engine established them, and they do not depend on luck or time
 CACHEABLE = ("proven", "exhaustive", "fail")
@@ -193,7 +194,7 @@ class Cache:
         try:
             with os.fdopen(fd, "w", encoding="utf-8") as fh:
                 json.dump(record, fh, sort_keys=True)
-            os.chmod(tmp, 0o644)
+            os.chmod(tmp, new_file_mode())
             os.replace(tmp, self._path(key))
         except BaseException:
             try:
