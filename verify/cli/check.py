@@ -48,9 +48,10 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
+@click.option("--quiet", "-q", is_flag=True, help="No progress display.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
               params, include_dirs, defines, as_json, recursive, log_dir, no_log, vcd_path,
-              dot_path, no_diagnose):
+              dot_path, no_diagnose, quiet):
     from verify.batch import check_files, exit_code, project_log_dir
 
     if no_log:
@@ -60,18 +61,22 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
         if log_dir is None and not as_json:
             click.echo("note: no run log kept (no verify.toml or logs/ folder here or above); "
                        "--log-dir DIR keeps one", err=True)
+    bar = _progress(as_json, quiet)
     try:
         check_report_paths(vcd_path, dot_path)
         runs = check_files(
             paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
             defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
-            dot_path=dot_path, log_dir=log_dir, recursive=recursive, progress=_progress(as_json),
+            dot_path=dot_path, log_dir=log_dir, recursive=recursive, progress=bar,
             engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
             exhaustive_limit=exhaustive_limit, shard=parse_shard(shard))
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
         raise
+    finally:
+        if bar is not None:
+            bar.close()
     for note in runs.notes:
         click.echo(f"note: {note}", err=True)
     for run in runs:
@@ -84,19 +89,56 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
     return exit_code(runs)
 
 
-def _progress(as_json: bool):
-    if as_json or not sys.stderr.isatty():
-        return None
-    state = {"last": None}
+#: the exhaustive engine shows a bar from this many vectors; anything else after this long
+BAR_FROM_VECTORS = 1 << 24
+BAR_AFTER_SECONDS = 1.0
 
-    def show(engine: str, done: int, total: int) -> None:
-        pct = int(100 * done / total) if total else 100
-        if state["last"] != (engine, pct):
-            state["last"] = (engine, pct)
-            click.echo(f"\r  {engine} {pct:3d}% ({done:,} of {total:,})", err=True, nl=False)
-            if done >= total:
-                click.echo("\r" + " " * 60 + "\r", err=True, nl=False)
-    return show
+
+class _ProgressBar:
+    """A rich progress bar on stderr for long engine work: shown at once for an exhaustive check
+    of 2^24 vectors or more, otherwise once the work has taken a second (random vectors, proof
+    queries); never when stderr is not a terminal, with --json or with --quiet."""
+
+    def __init__(self):
+        import time
+        self._clock = time.monotonic
+        self.started: dict[str, float] = {}
+        self.bar = None
+        self.tasks: dict[str, int] = {}
+
+    def __call__(self, engine: str, done: int, total: int) -> None:
+        first = self.started.setdefault(engine, self._clock())
+        if engine not in self.tasks:
+            big = engine == "exhaustive" and total >= BAR_FROM_VECTORS
+            if not big and self._clock() - first < BAR_AFTER_SECONDS:
+                return
+            if self.bar is None:
+                from rich.console import Console
+                from rich.progress import (BarColumn, MofNCompleteColumn, Progress, TextColumn,
+                                           TimeRemainingColumn)
+                self.bar = Progress(TextColumn("{task.description}"), BarColumn(),
+                                    MofNCompleteColumn(), TimeRemainingColumn(),
+                                    console=Console(stderr=True), transient=True)
+                self.bar.start()
+            self.tasks[engine] = self.bar.add_task(engine, total=total)
+        self.bar.update(self.tasks[engine], completed=done, total=total)
+        if done >= total:
+            self.bar.remove_task(self.tasks.pop(engine))
+            self.started.pop(engine, None)
+            if not self.tasks:
+                self.close()
+
+    def close(self) -> None:
+        if self.bar is not None:
+            self.bar.stop()
+            self.bar = None
+            self.tasks.clear()
+
+
+def _progress(as_json: bool, quiet: bool = False):
+    if as_json or quiet or not sys.stderr.isatty():
+        return None
+    return _ProgressBar()
 
 
 def _print_json(runs) -> None:

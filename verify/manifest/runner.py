@@ -42,10 +42,7 @@ from verify.errors import InputError
 from verify.manifest.records import EntryRecord, meets  # noqa: F401 - meets is re-exported
 from verify.model.result import Verdict, worst_exit_code
 
-try:  # Python 3.11+
-    import tomllib as _toml
-except ImportError:  # pragma: no cover - Python 3.10
-    import tomli as _toml  # type: ignore[no-redef]
+import tomllib as _toml
 
 MANIFEST_NAME = "verify.toml"
 ENGINES = ("auto", "exhaustive", "smt", "random")
