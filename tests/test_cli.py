@@ -209,3 +209,12 @@ def test_no_log_folder_is_created_outside_a_project(files, capsys, monkeypatch):
 def test_an_empty_path_names_nothing(capsys):
     code, _, err = run(["check", "", "--no-log"], capsys)
     assert code == 2 and err.startswith("error: ") and "empty path" in err
+
+
+def test_a_log_dir_that_is_a_file_is_refused_before_any_check(files, capsys):
+    tmp, _, bad = files
+    blocker = tmp / "logfile"
+    blocker.write_text("mine\n")
+    code, out, err = run(["check", str(bad), "--log-dir", str(blocker)], capsys)
+    assert code == 2 and "--log-dir" in err and "names a file" in err
+    assert blocker.read_text() == "mine\n"

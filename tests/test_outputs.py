@@ -37,6 +37,9 @@ def test_a_report_replaces_only_an_earlier_report_of_the_same_kind(tmp_path):
     "# Design notes\nWe use adder-verify for sign-off.\n",  # merely mentions the tool
     "// written by adder-verify from 'ks8': 70 gates\nmodule ks8 (\n",  # a design we exported
     "",
+    # a hand-written file that happens to contain the mark's words
+    "Our CI writes <!-- adder-verify report (junit) --> files to out/\n",
+    "notes: the summary line is \"format\": \"verify-run/1\" in each report\n",
 ])
 def test_a_report_never_replaces_a_file_the_user_wrote(tmp_path, existing):
     mine = tmp_path / "NOTES.md"

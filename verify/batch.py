@@ -138,6 +138,8 @@ def check_files(paths: Sequence[str | Path], spec=None, *,
     from verify.check import check, resolve_spec
     from verify.formats import load
 
+    if log_dir is not None and Path(log_dir).exists() and not Path(log_dir).is_dir():
+        raise InputError(f"'{log_dir}' names a file; the run log needs a folder", option="log_dir")
     units, skipped = design_files(paths, recursive=recursive)
     points = sweep_points(params)
     single = len(units) == 1 and len(points) == 1

@@ -20,7 +20,8 @@ FLAGS = {"params": "--param", "include_dirs": "-I", "defines": "-D", "top": "--t
          "exhaustive_limit": "--exhaustive-limit", "shard": "--shard", "engine": "--engine",
          "jobs": "--jobs", "input": "--input", "width": "--width", "spec": "--spec",
          "cells": "--cells", "delays": "--delays", "settle_within": "--settle-within",
-         "strength": "--strength"}
+         "strength": "--strength", "log_dir": "--log-dir", "vcd": "--vcd", "dot": "--dot",
+         "recursive": "--recursive"}
 _FROM_FLAG = {flag: name for name, flag in FLAGS.items()}
 
 

@@ -19,7 +19,10 @@ from pathlib import Path
 
 from verify.errors import InputError
 
-_MARK = re.compile(r'adder-verify report \((?P<kind>[a-z]+)\)|"format": "(?P<json>verify-run/1)"')
+#: a mark is a whole comment that opens one of the first lines (or the JSON summary's format
+#: line): a file that merely mentions the words somewhere is not a report
+_MARK = re.compile(r'^\s*(?:(?:<!--|//|\$comment|#)\s*adder-verify report \((?P<kind>[a-z]+)\)'
+                   r'|"format": "(?P<json>verify-run/1)",?\s*$)')
 _HEAD_LINES = 3
 
 
