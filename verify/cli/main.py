@@ -176,9 +176,14 @@ def verilog_options(f):
 @click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
+@click.option("--settle-within", type=float, metavar="D", help="Also prove every output settled "
+              "by time D (in the delay model's unit) for every input, floating mode; see "
+              "'adder-verify timing'.")
+@click.option("--delays", metavar="MODEL", help="Delay model for --settle-within: 'unit' (the "
+              "default) or a TOML delay table.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
               params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
-              no_diagnose):
+              no_diagnose, settle_within, delays):
     """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
     from verify.diagnosis import explain as diagnose
     from verify.manifest import runlog as logbook
@@ -206,10 +211,15 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
                 result = check(design, the_spec, engine=engine, seed=seed, vectors=vectors,
                                timeout=timeout, require=require,
                                exhaustive_limit=exhaustive_limit, shard=shard_t,
-                               progress=_progress(as_json))
-                lines = [] if no_diagnose else diagnose.attach(
-                    result, design, the_spec, vcd_path=vcd_path, dot_path=dot_path,
-                    log_dir=None if no_log else log_dir)
+                               progress=_progress(as_json), settle_within=settle_within,
+                               delays=delays)
+                if any(e.engine == "settle" and e.status == "fail" for e in result.engines):
+                    from verify.cli.timing import settle_lines  # late, not wrong: no suspects
+                    lines = settle_lines(result, design, delays, settle_within, vcd_path)
+                else:
+                    lines = [] if no_diagnose else diagnose.attach(
+                        result, design, the_spec, vcd_path=vcd_path, dot_path=dot_path,
+                        log_dir=None if no_log else log_dir)
             except InputError as e:
                 if len(units) == 1 and len(sweep(sweep_params)) == 1:
                     return _input_error(e, as_json)
@@ -331,7 +341,8 @@ def _register_commands() -> None:
     from verify.cli import explain as cli_diagnose
     from verify.cli import run as cli_gate
     from verify.cli import library as cli_library
-    for module in (cli_library, cli_diagnose, cli_gate):
+    from verify.cli import timing as cli_timing
+    for module in (cli_library, cli_diagnose, cli_gate, cli_timing):
         module.register(cli)
 
 
