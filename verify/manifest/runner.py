@@ -17,7 +17,9 @@ Optional keys: ``top``, ``params`` (a number or a list of numbers per parameter;
 parameters give every combination), ``require`` (default ``complete``), ``engine`` (default
 ``auto``), ``timeout`` (seconds, default 60), ``expect`` (``pass``, the default, or ``fail`` for a
 design broken on purpose: it meets expectations when a counterexample is found), ``include_dirs``,
-``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
+``defines``, ``seed``, ``vectors``, ``exhaustive_limit``, ``settle_within`` (prove every output
+settled by that time for every input, floating mode; see ``verify.timing``) and ``delays``
+(``unit``, the default, or a TOML delay table beside the manifest).
 
 ``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
 with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
@@ -52,7 +54,7 @@ REQUIRES = ("complete", "tested")
 EXPECTS = ("pass", "fail")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "files", "spec", "top", "params", "require", "engine", "timeout", "expect",
-        "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
+        "include_dirs", "defines", "seed", "vectors", "exhaustive_limit", "settle_within", "delays")
 REQUIRED = ("name", "files", "spec")
 _VERILOG = (".v", ".sv", ".vh", ".svh")
 
@@ -77,6 +79,10 @@ class Entry:
     seed: int = 1
     vectors: int | None = None
     exhaustive_limit: int | None = None
+    #: prove every output settled by this time (verify.timing), under ``delays`` (a TOML path)
+    settle_within: float | None = None
+    delays: str | None = None
+    delays_hash: str | None = None
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
     #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
@@ -97,7 +103,9 @@ class Entry:
         return {"engine": self.engine, "require": self.require, "timeout": self.timeout,
                 "seed": self.seed, "vectors": self.vectors,
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
-                "include_dirs": list(self.include_dirs), "defines": dict(self.defines)}
+                "include_dirs": list(self.include_dirs), "defines": dict(self.defines),
+                **({"settle_within": self.settle_within, "delays": self.delays,
+                    "delays_hash": self.delays_hash} if self.settle_within is not None else {})}
 
 
 @dataclass(frozen=True)
@@ -284,6 +292,8 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         raise bad("timeout", f"must be a positive number of seconds, got {timeout!r}")
 
     seed = whole("seed", 0)
+    from verify.timing.settle import manifest_keys
+    settle, delays, delays_hash = manifest_keys(table, path, bad)
     key_where = []
     for key in table:
         n = _key_line(lines, start, end, key) if start else None
@@ -296,7 +306,8 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         include_dirs=tuple(include_dirs), defines=tuple(defines),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
         exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
-        key_where=tuple(key_where))
+        key_where=tuple(key_where), settle_within=settle, delays=delays, delays_hash=delays_hash)
+
 
 
 def _similar(a: str, b: str) -> bool:
@@ -369,7 +380,10 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
                       defines=dict(entry.defines) or None)
         result = check(design, entry.spec, engine=entry.engine, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.timeout, require=entry.require,
-                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
+                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
+                       settle_within=entry.settle_within,
+                       delays=entry.delays if entry.delays in (None, "unit")
+                       else str(root / entry.delays))
     except InputError as e:
         fault = manifest_fault(e)
         return {**base, "verdict": "error",

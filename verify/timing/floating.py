@@ -33,6 +33,8 @@ from verify.timing.delays import DelayModel, resolve
 #: many distinct values can make path-delay sums explode; the unit model never comes near)
 MAX_CANDIDATES = 20_000
 SOLVER = "cadical195"
+#: python-sat cannot interrupt CaDiCaL, so a solve under a time limit uses Glucose 4, which it can
+INTERRUPTIBLE_SOLVER = "glucose4"
 
 
 class TimeLimit(Exception):
@@ -56,8 +58,11 @@ class OutputTiming:
 class Analysis:
     """A design prepared for timing under one delay model: delays, arrivals, candidates, SAT."""
 
-    def __init__(self, design: Netlist, model: DelayModel | str | None = None):
+    def __init__(self, design: Netlist, model: DelayModel | str | None = None, *,
+                 interruptible: bool = False):
+        """``interruptible``: solves will be given deadlines (picks a solver that can stop)."""
         self.design = design
+        self.solver_name = INTERRUPTIBLE_SOLVER if interruptible else SOLVER
         self.model = resolve(model)
         self.delay = {g.output: self.model.ticks(g) for g in design.gates}
         arrival, came_from = graph.arrival(design, lambda g: self.delay[g.output])
@@ -184,7 +189,7 @@ class Analysis:
                 if prev is not None:
                     clauses.append([-prev, v])  # settled stays settled (implied; helps search)
                 prev = v
-        solver = Solver(name=SOLVER, bootstrap_with=clauses)
+        solver = Solver(name=self.solver_name, bootstrap_with=clauses)
         self._solver, self._vars = solver, {"x": x, "s": s, "true": true}
 
     def _solve(self, assumptions: list[int], deadline: float | None) -> bool:
@@ -192,6 +197,8 @@ class Analysis:
             self._build()
         if deadline is None:
             return self._solver.solve(assumptions=assumptions)
+        if self.solver_name != INTERRUPTIBLE_SOLVER:
+            raise ValueError("a deadline needs Analysis(..., interruptible=True)")
         left = deadline - _time.monotonic()
         if left <= 0:
             raise TimeLimit()

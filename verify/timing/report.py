@@ -29,7 +29,7 @@ def analyze(design: Netlist, delays: DelayModel | str | None = None, *,
     Raises ``TimeLimit`` when the solver runs out of ``time_limit`` seconds.
     """
     started = time.perf_counter()
-    an = Analysis(design, resolve(delays))
+    an = Analysis(design, resolve(delays), interruptible=bool(time_limit))
     units = an.model.to_units
     deadline = time.monotonic() + time_limit if time_limit else None
     per_output, false_paths = {}, []

@@ -83,7 +83,7 @@ def settle_check(design: Netlist, spec=None, within=None, delays: DelayModel | s
     started = time.perf_counter()
     model = resolve(delays)
     the_spec = resolve_spec(design, spec)
-    an = Analysis(design, model)
+    an = Analysis(design, model, interruptible=bool(time_limit))
     d_ticks = within_ticks(model, within)
     details = {"settle_within": within, "delays": model.name, "unit": model.unit,
                "semantics": "floating mode"}
@@ -102,6 +102,7 @@ def settle_check(design: Netlist, spec=None, within=None, delays: DelayModel | s
         return outcome("undecided", f"settle check not run: {e}")
     finally:
         an.close()
+    within = f"{within:g}" if isinstance(within, (int, float)) else within
     if vector is None:
         return outcome("pass", f"SAT (floating mode, delays '{model.name}'): for every input, "
                        f"every output holds its final value from {within} {model.unit} on")
@@ -117,7 +118,8 @@ def settle_check(design: Netlist, spec=None, within=None, delays: DelayModel | s
     if vcd_path is not None:
         details["vcd"] = str(write_waveform(vcd_path, wave, model, how, d_ticks))
     worst = max(late.values())
-    return outcome("fail", f"not settled by {within} {model.unit}: {', '.join(late)} settle at up "
+    verb = "settles" if len(late) == 1 else "settle"
+    return outcome("fail", f"not settled by {within} {model.unit}: {', '.join(late)} {verb} at up "
                    f"to {worst:g} {model.unit}; {how}",
                    Counterexample(dict(vector), expected, actual))
 
@@ -168,3 +170,25 @@ def timescale(model: DelayModel) -> str:
     if idx >= len(_UNITS):
         raise ValueError(f"delays finer than 1 fs cannot be written to a VCD ({model.name})")
     return f"{10 ** ((3 - k % 3) % 3)} {_UNITS[idx]}"
+
+
+def manifest_keys(table: dict, path: Path, bad) -> tuple:
+    """A manifest entry's ``settle_within`` (a time >= 0) and ``delays`` ('unit' or a TOML file
+    beside the manifest at ``path``): (time, delays, sha256 of the table); ``bad(key, message)``
+    makes the manifest's InputError."""
+    import hashlib
+    settle, delays = table.get("settle_within"), table.get("delays")
+    if settle is not None and (isinstance(settle, bool) or not isinstance(settle, (int, float))
+                               or not settle >= 0):
+        raise bad("settle_within", f"must be a time >= 0 in the delay model's unit, got {settle!r}")
+    if delays is not None and (not isinstance(delays, str) or not delays.strip()):
+        raise bad("delays", f"give 'unit' or the path of a TOML delay table, got {delays!r}")
+    if delays is not None and settle is None:
+        raise bad("delays", "applies with settle_within only")
+    digest = None
+    if delays is not None and delays.strip().lower() != "unit":
+        f = path.parent / delays
+        if not f.is_file():
+            raise bad("delays", f"'{delays}': no such file")
+        digest = hashlib.sha256(f.read_bytes()).hexdigest()
+    return (None if settle is None else float(settle)), delays, digest
