@@ -214,11 +214,11 @@ class Analysis:
         return answer
 
     def _model_vector(self) -> dict[str, int]:
-        model = set(lit for lit in self._solver.get_model() if lit > 0)
+        model = self._solver.get_model()  # model[v - 1] is v or -v
         x = self._vars["x"]
         out = {}
         for p in self.design.inputs:
-            out[p.name] = sum(1 << i for i, b in enumerate(p.bits) if x[b] in model)
+            out[p.name] = sum(1 << i for i, b in enumerate(p.bits) if model[x[b] - 1] > 0)
         return out
 
     def unsettled_at(self, nets: list[str], t: int, deadline: float | None = None
