@@ -366,3 +366,38 @@ def test_check_settle_within_on_the_command_line(tmp_path, capsys):
     code, _, err = run(["check", str(p), "--settle-within", "8", "--delays",
                         str(tmp_path / "none.toml"), "--no-log"], capsys)
     assert code == 2 and "no such delay file" in err
+
+
+def test_per_gate_model_looks_up_each_gate_and_falls_back():
+    # the plug for library cells: a delay per gate by its source, the unit model for the rest
+    from verify.timing.delays import PerGateModel
+    d = A.generate("ripple", 4)
+    slow_carry = PerGateModel("cells", "ns", lambda g: 2.5 if g.op == "or" else None, UnitModel())
+    an = Analysis(d, slow_carry)
+    assert {an.delay[g.output] for g in d.gates if g.op == "or"} == {2500}
+    assert {an.delay[g.output] for g in d.gates if g.op == "xor"} == {1000}
+    # ripple formula again (common practice): t_p + (n-1)*t_carry + max(t_carry, t_sum)
+    assert analyze(d, slow_carry)["exact_delay"] == 1 + 3 * 3.5 + 3.5
+
+
+def test_verilog_parameter_sweep_follows_the_ripple_formula(capsys):
+    from verify.formats import load
+    code, out, _ = run(["timing", "designs/larkspur_add_rca_generate.v", "--param", "W=4,8",
+                        "--delays", TYPICAL, "--json"], capsys)
+    rows = json.loads(out)["sweeps"]["W"]
+    assert code == 0 and [r["width"] for r in rows] == [4, 8]
+    for r in rows:
+        # common practice: t_p + (n-1)*t_carry + max(t_carry, t_sum), the stage delays read off
+        # the Verilog full adder of bit 1 (carry c[1] -> c[2] and c[1] -> sum[1])
+        d = load(["designs/larkspur_add_rca_generate.v"], params={"W": r["width"]})
+        an = Analysis(d, TYPICAL)
+        t_carry = _between(d, an.delay, "c[1]", "c[2]")
+        t_sum = _between(d, an.delay, "c[1]", "sum[1]")
+        t_p = _between(d, an.delay, "a[0]", "c[1]") - t_carry  # the first stage's set-up
+        expected = t_p + (r["width"] - 1) * t_carry + max(t_carry, t_sum)
+        assert r["exact"] * an.model.ticks_per_unit == expected
+
+
+def test_vcd_without_a_transition_is_refused(capsys):
+    code, _, err = run(["timing", "designs/larkspur_add8_ripple.json", "--vcd", "x.vcd"], capsys)
+    assert code == 2 and "--to" in err

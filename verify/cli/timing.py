@@ -89,6 +89,9 @@ def _timing(paths, delays, spec, as_json, from_text, to_text, vcd_path, widths, 
                                 time_limit=time_limit)
             return _emit_sweep({name: rows}, model, plot_path, as_json, force, f"{name}")
         design = loader({k: v[0] for k, v in point.items()})
+        if vcd_path and not to_text:
+            raise InputError("--vcd writes the waveform of one transition: give --to (and "
+                             "--from)")
         if from_text or to_text:
             if not to_text:
                 raise InputError("--from needs --to (the vector the inputs switch to)")

@@ -78,11 +78,12 @@ def settle_check(design: Netlist, spec=None, within=None, delays: DelayModel | s
                  *, time_limit: float | None = 60.0, vcd_path: str | Path | None = None
                  ) -> EngineOutcome:
     """Prove every output settled by ``within`` (model units) for every input, or show a vector."""
-    from verify.check import resolve_spec
+    from verify import spec as specmod
 
     started = time.perf_counter()
     model = resolve(delays)
-    the_spec = resolve_spec(design, spec)
+    the_spec = specmod.infer(design) if spec is None else \
+        specmod.parse(spec, design) if isinstance(spec, str) else spec
     an = Analysis(design, model, interruptible=bool(time_limit))
     d_ticks = within_ticks(model, within)
     details = {"settle_within": within, "delays": model.name, "unit": model.unit,
