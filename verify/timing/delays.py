@@ -18,7 +18,6 @@ Models shipped here:
 
 from __future__ import annotations
 
-import tomllib
 from decimal import Decimal, InvalidOperation
 from fractions import Fraction
 from pathlib import Path
@@ -26,6 +25,11 @@ from typing import Callable, Mapping
 
 from verify.errors import InputError
 from verify.model.ops import OPS
+
+try:
+    import tomllib
+except ModuleNotFoundError:  # pragma: no cover - Python 3.10
+    import tomli as tomllib  # type: ignore[no-redef]
 
 #: ops that take no time in every model: a plain connection and the constants
 ZERO_DELAY_OPS = ("buf", "const0", "const1")

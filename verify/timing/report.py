@@ -139,11 +139,14 @@ def plot(series: dict[str, list[dict]], unit: str, path, title: str = "delay aga
     import tempfile
     from pathlib import Path
 
-    import matplotlib
+    from verify.errors import InputError
+    try:
+        import matplotlib
+    except ImportError:
+        raise InputError("--plot needs matplotlib: pip install 'adder-verify[plot]'") from None
     matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
-    from verify.errors import InputError
     from verify.files import can_write
 
     p = can_write(path, what="plot", force=force)
