@@ -401,3 +401,39 @@ def test_verilog_parameter_sweep_follows_the_ripple_formula(capsys):
 def test_vcd_without_a_transition_is_refused(capsys):
     code, _, err = run(["timing", "designs/larkspur_add8_ripple.json", "--vcd", "x.vcd"], capsys)
     assert code == 2 and "--to" in err
+
+
+def test_manifest_settle_within_and_delays(tmp_path):
+    import shutil
+    from verify.manifest.runner import check_entry, load_manifest
+    shutil.copy(TYPICAL, tmp_path / "typical.toml")
+    from verify.formats import json_netlist
+    (tmp_path / "r4.json").write_text(json_netlist.dumps(A.generate("ripple", 4)))
+    exact_ps = analyze(A.generate("ripple", 4), TYPICAL)["exact_delay"]
+    (tmp_path / "verify.toml").write_text(f"""
+[[design]]
+name = "in-time"
+files = ["r4.json"]
+spec = "{{cout, sum}} = a + b + cin"
+settle_within = {exact_ps}
+delays = "typical.toml"
+
+[[design]]
+name = "late"
+files = ["r4.json"]
+spec = "{{cout, sum}} = a + b + cin"
+settle_within = {exact_ps - 1}
+delays = "typical.toml"
+""")
+    m = load_manifest(tmp_path / "verify.toml")
+    ok, late = (check_entry(e, {}, tmp_path) for e in m.entries)
+    assert ok["verdict"] == "exhaustive" and ok["engines"][-1]["engine"] == "settle"
+    assert late["verdict"] == "fail" and late["engines"][-1]["status"] == "fail"
+    # the table's content is part of the cache key: a changed table is a changed check
+    before = m.entries[0].options()
+    (tmp_path / "typical.toml").write_text((tmp_path / "typical.toml").read_text() + "\n# x\n")
+    assert load_manifest(tmp_path / "verify.toml").entries[0].options() != before
+    (tmp_path / "verify.toml").write_text('[[design]]\nname = "x"\nfiles = ["r4.json"]\n'
+                                          'spec = "sum = a + b"\ndelays = "unit"\n')
+    with pytest.raises(InputError, match="settle_within"):
+        load_manifest(tmp_path / "verify.toml")
