@@ -172,12 +172,13 @@ def test_carry_skip_false_path_by_exhaustive_transitions():
 
 @pytest.mark.slow
 @pytest.mark.parametrize("arch, width, kw", SMALL)
-def test_transitions_never_outlast_the_exact_delay(arch, width, kw):
+@pytest.mark.parametrize("delays", ["unit", TYPICAL])
+def test_transitions_never_outlast_the_exact_delay(arch, width, kw, delays):
     # what holds in general: whatever the earlier vector, with transport delay every output is
     # final from its floating-mode settle time on, so the last change of any transition is at
     # most the exact delay; for these designs the two are equal (some transition needs it all)
     d = A.generate(arch, width, **kw)
-    an = Analysis(d, "unit")
+    an = Analysis(d, delays)
     exact = {o: an.exact(o).exact for o in d.output_bits}
     sim = _all_transitions(d, an)
     assert all(sim[o] <= exact[o] for o in d.output_bits)
