@@ -15,6 +15,8 @@ gate's inputs (the op's rule) has settled by t - d, each at the value the set na
 are the ordinary gate clauses (``OPS[op].clauses``). Then ``n`` settles after ``t`` for some
 input exactly when ``not s(n, t)`` is satisfiable; the exact delay is the smallest candidate ``t``
 where it is not, found by binary search with one incremental solver (CaDiCaL via python-sat).
+Settle variables are encoded on demand: a query at ``(n, t)`` adds only the pairs it reaches
+backwards (each gate's inputs at ``t - d``, rounded down to their candidates).
 """
 
 from __future__ import annotations
@@ -122,75 +124,96 @@ class Analysis:
         return graph.path_to(via, net)
 
     # ---- the SAT encoding --------------------------------------------------------------
+    def _fresh(self) -> int:
+        self._top += 1
+        return self._top
+
     def _build(self) -> None:
+        """The value clauses of every gate; settle variables are added as queries need them."""
         from pysat.solvers import Solver
 
-        cand = self.candidates
-        counter = [0]
-
-        def fresh() -> int:
-            counter[0] += 1
-            return counter[0]
-
+        self._top = 0
         clauses: list[list[int]] = []
-        true = fresh()
+        true = self._fresh()
         clauses.append([true])
         x = {"0": -true, "1": true}
         for b in self.design.input_bits:
-            x[b] = fresh()
+            x[b] = self._fresh()
         for g in self.design.ordered_gates:
-            x[g.output] = fresh()
+            x[g.output] = self._fresh()
         for g in self.design.ordered_gates:
-            clauses += OPS[g.op].clauses(x[g.output], [x[i] for i in g.inputs], fresh)
-        s: dict[tuple[str, int], int] = {}
+            clauses += OPS[g.op].clauses(x[g.output], [x[i] for i in g.inputs], self._fresh)
+        self._solver = Solver(name=self.solver_name, bootstrap_with=clauses)
+        self._vars = {"x": x, "s": {}, "true": true}
 
-        def settled(net: str, t: int) -> int | None:
-            """Literal for 'net settled by t': true, a variable, or None for false."""
-            if net in self.sources:
-                return true if t >= 0 else None
-            times = cand[net]
-            k = bisect.bisect_right(times, t) - 1
-            return s[(net, times[k])] if k >= 0 else None
+    def _key(self, net: str, t: int):
+        """'net settled by t' as: True (always), None (never) or the (net, candidate) it means."""
+        if net in self.sources:
+            return True if t >= 0 else None
+        times = self.candidates[net]
+        k = bisect.bisect_right(times, t) - 1
+        return (net, times[k]) if k >= 0 else None
 
-        for g in self.design.ordered_gates:
-            op = OPS[g.op]
-            d = self.delay[g.output]
-            groups = op.settling_sets(len(g.inputs))
-            prev = None
-            for t in cand[g.output]:
-                v = fresh()
-                s[(g.output, t)] = v
-                terms = []
-                for group in groups:
-                    lits, dead = [], False
-                    for i, want in group:
-                        lit = settled(g.inputs[i], t - d)
-                        if lit is None:
-                            dead = True
-                            break
-                        if lit != true:
-                            lits.append(lit)
-                        if want is not None:
-                            lits.append(x[g.inputs[i]] if want else -x[g.inputs[i]])
-                    if dead:
-                        continue
-                    lits = list(dict.fromkeys(lits))
-                    if not lits:
-                        terms = [true]
+    def _settled(self, net: str, t: int) -> int | None:
+        """The literal for 'net settled by t' (None: false), encoding what it needs on demand.
+
+        Only the (net, candidate) pairs a query reaches backwards are encoded: for a gate at
+        time t its inputs at t - d, rounded down to their candidates.
+        """
+        if self._solver is None:
+            self._build()
+        s, x, true = self._vars["s"], self._vars["x"], self._vars["true"]
+        key = self._key(net, t)
+        if key is None or key is True:
+            return None if key is None else true
+        stack = [(key, False)]
+        clauses: list[list[int]] = []
+        driver = self.design.driver
+        while stack:
+            (n, tt), ready = stack.pop()
+            if (n, tt) in s:
+                continue
+            g = driver[n]
+            d = self.delay[n]
+            keys = {i: self._key(i, tt - d) for i in dict.fromkeys(g.inputs)}
+            if not ready:
+                missing = [k for k in keys.values() if isinstance(k, tuple) and k not in s]
+                if missing:
+                    stack.append(((n, tt), True))
+                    stack.extend((k, False) for k in missing)
+                    continue
+            lit_of = {i: (true if k is True else None if k is None else s[k])
+                      for i, k in keys.items()}
+            v = self._fresh()
+            s[(n, tt)] = v
+            terms = []
+            for group in OPS[g.op].settling_sets(len(g.inputs)):
+                lits, dead = [], False
+                for idx, want in group:
+                    lit = lit_of[g.inputs[idx]]
+                    if lit is None:
+                        dead = True
                         break
-                    if len(lits) == 1:
-                        terms.append(lits[0])
-                    else:
-                        a = fresh()
-                        clauses += [[-a, lit] for lit in lits] + [[a, *(-lit for lit in lits)]]
-                        terms.append(a)
-                clauses.append([-v, *terms])
-                clauses += [[v, -a] for a in terms]
-                if prev is not None:
-                    clauses.append([-prev, v])  # settled stays settled (implied; helps search)
-                prev = v
-        solver = Solver(name=self.solver_name, bootstrap_with=clauses)
-        self._solver, self._vars = solver, {"x": x, "s": s, "true": true}
+                    if lit != true:
+                        lits.append(lit)
+                    if want is not None:
+                        lits.append(x[g.inputs[idx]] if want else -x[g.inputs[idx]])
+                if dead:
+                    continue
+                lits = list(dict.fromkeys(lits))
+                if not lits:
+                    terms = [true]
+                    break
+                if len(lits) == 1:
+                    terms.append(lits[0])
+                else:
+                    a = self._fresh()
+                    clauses += [[-a, lit] for lit in lits] + [[a, *(-lit for lit in lits)]]
+                    terms.append(a)
+            clauses.append([-v, *terms])
+            clauses += [[v, -a] for a in terms]
+        self._solver.append_formula(clauses)
+        return s[key]
 
     def _solve(self, assumptions: list[int], deadline: float | None) -> bool:
         if self._solver is None:
@@ -228,20 +251,16 @@ class Analysis:
             self._build()
         lits = []
         for n in nets:
-            if n in self.sources:
-                if t < 0:
-                    return {p.name: 0 for p in self.design.inputs}
-                continue
-            times = self.candidates[n]
-            k = bisect.bisect_right(times, t) - 1
-            if k < 0:  # cannot have settled this early for any vector
+            lit = self._settled(n, t)
+            if lit is None:  # cannot have settled this early for any vector
                 return {p.name: 0 for p in self.design.inputs}
-            lits.append(self._vars["s"][(n, times[k])])
+            if lit != self._vars["true"]:
+                lits.append(lit)
         if not lits:
             return None
         if len(lits) == 1:
             return self._model_vector() if self._solve([-lits[0]], deadline) else None
-        sel = self._solver.nof_vars() + 1
+        sel = self._fresh()
         self._solver.add_clause([-sel, *(-lit for lit in lits)])  # sel -> some net unsettled
         try:
             return self._model_vector() if self._solve([sel], deadline) else None
