@@ -438,3 +438,25 @@ delays = "typical.toml"
                                           'spec = "sum = a + b"\ndelays = "unit"\n')
     with pytest.raises(InputError, match="settle_within"):
         load_manifest(tmp_path / "verify.toml")
+
+
+def test_library_model_takes_one_delay_per_cell_from_its_tables():
+    # a stand-in for a read Liberty library (cells -> timing arcs -> cell_rise/cell_fall tables)
+    from types import SimpleNamespace as NS
+    from verify.timing.delays import cell_delays, library_model
+
+    def arc(rise, fall):
+        return NS(tables={"cell_rise": NS(values=rise), "cell_fall": NS(values=fall)})
+    lib = NS(name="demo", cells={
+        "XOR2": NS(arcs=[arc([[0.050, 0.09]], [[0.046, 0.08]]), arc([[0.052, 0.1]], [[0.04, 0.1]])]),
+        "AND2": NS(arcs=[arc([[0.031, 0.07]], [[0.035, 0.06]])]),
+        "OR2": NS(arcs=[arc([[0.038, 0.07]], [[0.033, 0.06]])]),
+        "TIE": NS(arcs=[])})
+    assert cell_delays(lib) == {"XOR2": 0.052, "AND2": 0.035, "OR2": 0.038}
+    d = A.generate("ripple", 4)
+    model = library_model(lib, lambda g: {"xor": "XOR2", "and": "AND2", "or": "OR2"}.get(g.op))
+    an = Analysis(d, model)
+    t_carry = 0.035 + 0.038  # ripple formula again (common practice), cells read from the tables
+    expected = 0.052 + 3 * t_carry + max(t_carry, 0.052)
+    assert analyze(d, model)["exact_delay"] == pytest.approx(expected)
+    assert an.model.unit == "ns"

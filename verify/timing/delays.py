@@ -11,7 +11,8 @@ Models shipped here:
 - a TOML table (``load_toml``): a delay per op and an increase per input beyond two; see
   ``designs/delays/typical.toml`` for the layout.
 - ``PerGateModel``: a delay looked up per gate (by its cell or ``source``) with another model for
-  the gates it does not know; a Liberty-based model is this with the table read from a library.
+  the gates it does not know; ``library_model(library, cell_of)`` is this with one delay per cell
+  read from a Liberty library (``verify.formats.liberty.read_liberty``, duck-typed here).
 
 ``resolve(text)`` turns a ``--delays`` value (``unit`` or a path to a TOML file) into a model.
 """
@@ -107,6 +108,57 @@ class PerGateModel(DelayModel):
             return round(Fraction(self.fallback.ticks(gate), self.fallback.ticks_per_unit)
                          * self.ticks_per_unit)
         return round(Fraction(str(d)) * self.ticks_per_unit)
+
+
+#: the Liberty tables a cell delay is read from
+CELL_DELAY_TABLES = ("cell_rise", "cell_fall")
+
+
+def cell_delays(library) -> dict[str, float]:
+    """One delay per cell of a Liberty library (``verify.formats.liberty.read_liberty``).
+
+    A cell's delay is the largest entry at the first index point (the smallest input transition
+    and output load the table lists) of its ``cell_rise``/``cell_fall`` tables over all of its
+    timing arcs: one number per cell, in the library's time unit. Cells without such tables are
+    left out (the fallback model times them).
+    """
+    out: dict[str, float] = {}
+    for name, cell in library.cells.items():
+        worst = None
+        for arc in getattr(cell, "arcs", ()):
+            for key in CELL_DELAY_TABLES:
+                table = arc.tables.get(key)
+                if table is None or not table.values or not table.values[0]:
+                    continue
+                v = float(table.values[0][0])
+                worst = v if worst is None else max(worst, v)
+        if worst is not None:
+            out[name] = worst
+    return out
+
+
+def library_model(library, cell_of: Callable[[object], str | None], *, unit: str = "ns",
+                  fallback: DelayModel | None = None) -> PerGateModel:
+    """A per-gate model from a Liberty library: ``cell_of(gate)`` names the cell a gate stands
+    for (None: a gate that is not a cell's output, timed by ``fallback``, default 0 for none).
+
+    A cell modeled by several gates should map only the gate driving the cell's output to the
+    cell; the others to None with a zero fallback, so a cell's delay is counted once.
+    """
+    delays = cell_delays(library)
+    name = getattr(library, "name", "liberty")
+
+    def lookup(gate):
+        cell = cell_of(gate)
+        return None if cell is None else delays.get(cell)
+    return PerGateModel(str(name), unit, lookup, fallback or _ZeroModel())
+
+
+class _ZeroModel(DelayModel):
+    name = "zero"
+
+    def ticks(self, gate) -> int:
+        return 0
 
 
 def _places(d: Decimal) -> int:
