@@ -7,7 +7,8 @@ import sys
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-SCRIPTS = ["bench_engines.py", "bench_verilog.py", "bench_diagnose.py", "bench_gate.py"]
+SCRIPTS = ["bench_engines.py", "bench_verilog.py", "bench_diagnose.py", "bench_gate.py",
+           "bench_timing.py"]
 
 
 def main() -> int:

@@ -57,6 +57,21 @@ class FileCheck:
         return f"{self.name}: {self.result.verdict.value}: {self.result.coverage}"
 
 
+def _late(result: CheckResult, design, late, vcd_path, options) -> list[str]:
+    """The report lines of a result that is right but not settled in time; with ``vcd_path``,
+    the timed waveform of the late vector is written there."""
+    from verify.model.result import Diagnosis
+    lines = [f"late: {late.evidence}"]
+    path = None
+    if vcd_path and result.counterexample is not None:
+        from verify.timing.settle import settle_waveform
+        path = str(settle_waveform(design, options.get("delays"), result.counterexample.inputs,
+                                   options.get("settle_within"), vcd_path))
+        lines.append(f"timed waveform: {path}")
+    result.diagnosis = Diagnosis(vcd=path, details={"late": late.evidence})
+    return lines
+
+
 def sweep_points(params: Mapping[str, Sequence[int]] | None) -> list[dict[str, int]]:
     """Every combination of the parameter values ([{}] when there are none)."""
     params = dict(params or {})
@@ -159,7 +174,11 @@ def check_files(paths: Sequence[str | Path], spec=None, *,
                               defines=defines)
                 the_spec = resolve_spec(design, spec)
                 run.result = check(design, the_spec, progress=progress, **check_options)
-                if diagnose and run.result.counterexample is not None:
+                late = next((e for e in run.result.engines
+                             if e.engine == "settle" and e.status == "fail"), None)
+                if late is not None:  # late, not wrong: a timed waveform, no suspects
+                    run.diagnosis = _late(run.result, design, late, vcd_path, check_options)
+                elif diagnose and run.result.counterexample is not None:
                     from verify.diagnosis import explain
                     run.diagnosis = explain.attach(run.result, design, the_spec, vcd_path=vcd_path,
                                                    dot_path=dot_path, log_dir=log_dir)

@@ -77,12 +77,16 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
           require: str | Require = Require.TESTED,
           exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS, shrink: bool = True,
           shard: tuple[int, int] | None = None,
-          progress: Callable[[str, int, int], None] | None = None) -> CheckResult:
+          progress: Callable[[str, int, int], None] | None = None,
+          settle_within: float | None = None, delays=None) -> CheckResult:
     """Establish what can be established about ``design`` against ``spec``.
 
     ``spec`` is equation text, a ``verify.spec.Spec`` or None (inferred from port names).
     ``require="complete"`` makes a result that is only ``tested`` fail (exit code 3).
     ``shard=(k, n)`` limits the exhaustive engine to the k-th of n disjoint parts.
+    ``settle_within=D`` also proves every output settled by time D for every input under the
+    ``delays`` model (``verify.timing.settle_check``); a late output fails, a time limit leaves
+    the verdict undecided.
     Raises InputError for bad input; never returns a passing verdict no engine established.
     """
     started = time.perf_counter()
@@ -100,6 +104,12 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         if not (isinstance(k, int) and isinstance(n, int) and 1 <= k <= n):
             raise InputError(f"{k}/{n}: give K/N with 1 <= K <= N", option="shard")
     _check_options(seed, vectors, timeout, exhaustive_limit)
+    if settle_within is not None:
+        if isinstance(settle_within, bool) or not isinstance(settle_within, (int, float)) \
+                or not math.isfinite(settle_within) or settle_within < 0:
+            raise InputError(f"must be a time >= 0, got {settle_within!r}", option="settle_within")
+        from verify.timing.delays import resolve as resolve_delays
+        delays = resolve_delays(delays)
     if shard is not None and shard[1] > 1 << design.input_width:
         raise InputError(f"shard {shard[0]}/{shard[1]}: the input space of {design.name} has only "
                          f"2^{design.input_width} = {1 << design.input_width:,} vectors; give at "
@@ -126,6 +136,14 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     verdict, cex = combine(outcomes)
     if engine == "auto" and verdict is Verdict.TESTED:
         verdict = Verdict.UNDECIDED  # the complete engine was asked and gave no answer
+    if settle_within is not None and verdict is not Verdict.FAIL:
+        from verify.timing.settle import settle_check
+        outcomes.append(settle_check(design, the_spec, settle_within, delays, time_limit=timeout))
+        if outcomes[-1].status == "fail":
+            verdict, cex = Verdict.FAIL, outcomes[-1].counterexample
+            shrink = False  # the vector is the settle witness; a smaller one may settle in time
+        elif outcomes[-1].status != "pass" and verdict is not Verdict.FAIL:
+            verdict = Verdict.UNDECIDED
     found = shard_part = None
     if cex is not None and shrink:
         from verify.engines.shrink import shrink as shrink_cex

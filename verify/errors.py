@@ -21,7 +21,8 @@ FLAGS = {"params": "--param", "include_dirs": "-I", "defines": "-D", "top": "--t
          "jobs": "--jobs", "input": "--input", "width": "--width", "spec": "--spec",
          "cells": "--cells", "delays": "--delays", "settle_within": "--settle-within",
          "strength": "--strength", "log_dir": "--log-dir", "vcd": "--vcd", "dot": "--dot",
-         "recursive": "--recursive"}
+         "recursive": "--recursive", "time_limit": "--time-limit", "widths": "--widths",
+         "from": "--from", "to": "--to", "plot": "--plot"}
 _FROM_FLAG = {flag: name for name, flag in FLAGS.items()}
 
 

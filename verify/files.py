@@ -22,6 +22,7 @@ from verify.errors import InputError
 #: a mark is a whole comment that opens one of the first lines (or the JSON summary's format
 #: line): a file that merely mentions the words somewhere is not a report
 _MARK = re.compile(r'^\s*(?:(?:<!--|//|\$comment|#)\s*adder-verify report \((?P<kind>[a-z]+)\)'
+                   r'|adder-verify report \((?P<alone>[a-z]+)\)\s*$'
                    r'|"format": "(?P<json>verify-run/1)",?\s*$)')
 _HEAD_LINES = 3
 
@@ -35,7 +36,7 @@ def _mark_of(text: str) -> str | None:
     for line in text.splitlines()[:_HEAD_LINES]:
         m = _MARK.search(line)
         if m:
-            return m["kind"] or m["json"]
+            return m["kind"] or m["alone"] or m["json"]
     return None
 
 

@@ -48,10 +48,15 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
+@click.option("--settle-within", type=float, metavar="D", help="Also prove every output settled "
+              "by time D (in the delay model's unit) for every input, floating mode; see "
+              "'adder-verify timing'.")
+@click.option("--delays", metavar="MODEL", help="Delay model for --settle-within: 'unit' (the "
+              "default) or a TOML delay table.")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
               params, include_dirs, defines, as_json, recursive, log_dir, no_log, vcd_path,
-              dot_path, no_diagnose, quiet):
+              dot_path, no_diagnose, settle_within, delays, quiet):
     from verify.batch import check_files, exit_code, project_log_dir
 
     if no_log:
@@ -69,7 +74,8 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
             defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
             dot_path=dot_path, log_dir=log_dir, recursive=recursive, progress=bar,
             engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
-            exhaustive_limit=exhaustive_limit, shard=parse_shard(shard))
+            exhaustive_limit=exhaustive_limit, shard=parse_shard(shard),
+            settle_within=settle_within, delays=delays)
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))

@@ -17,6 +17,7 @@ from verify.cli import check as check_commands
 from verify.cli import explain as explain_commands
 from verify.cli import library as library_commands
 from verify.cli import run as run_commands
+from verify.cli import timing as timing_commands
 from verify.cli.options import EXIT_CODES
 from verify.errors import EngineDisagreement, InputError
 
@@ -49,7 +50,8 @@ def cli() -> None:
 
 for _command in (check_commands.check_cmd, check_commands.export_cmd,
                  library_commands.generate_cmd, library_commands.shape_cmd,
-                 explain_commands.explain_cmd, run_commands.run_cmd, run_commands.merge_cmd):
+                 explain_commands.explain_cmd, run_commands.run_cmd, run_commands.merge_cmd,
+                 timing_commands.timing_cmd):
     cli.add_command(_command)
 
 

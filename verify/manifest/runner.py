@@ -17,7 +17,10 @@ Optional keys: ``top``, ``params`` (a number or a list of numbers per parameter;
 parameters give every combination), ``require`` (default ``complete``), ``method`` (the engine,
 default ``auto``), ``time_limit`` (seconds, default 60), ``deliberately_broken`` (``true`` for a
 design broken on purpose, kept as a regression case: it meets the manifest when a counterexample
-is found), ``include_dirs``, ``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
+is found), ``include_dirs``, ``defines``, ``seed``, ``vectors``, ``exhaustive_limit``,
+``settle_within`` (prove every output settled by that time for every input, floating mode; see
+``verify.timing``) and ``delays`` (``unit``, the default, or a TOML delay table beside the
+manifest).
 
 ``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
 with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
@@ -49,7 +52,8 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 REQUIRES = ("complete", "tested")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "sources", "spec", "top", "params", "require", "method", "time_limit",
-        "deliberately_broken", "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
+        "deliberately_broken", "include_dirs", "defines", "seed", "vectors", "exhaustive_limit",
+        "settle_within", "delays")
 REQUIRED = ("name", "sources", "spec")
 #: keys of earlier versions, refused with the key that replaced them
 RENAMED = {"files": ("sources", 'sources = ["rtl/adder.sv"]'),
@@ -79,6 +83,10 @@ class Entry:
     seed: int = 1
     vectors: int | None = None
     exhaustive_limit: int | None = None
+    #: prove every output settled by this time (verify.timing), under ``delays`` (a TOML path)
+    settle_within: float | None = None
+    delays: str | None = None
+    delays_hash: str | None = None
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
     #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
@@ -99,7 +107,9 @@ class Entry:
         return {"method": self.method, "require": self.require, "time_limit": self.time_limit,
                 "seed": self.seed, "vectors": self.vectors,
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
-                "include_dirs": list(self.include_dirs), "defines": dict(self.defines)}
+                "include_dirs": list(self.include_dirs), "defines": dict(self.defines),
+                **({"settle_within": self.settle_within, "delays": self.delays,
+                    "delays_hash": self.delays_hash} if self.settle_within is not None else {})}
 
 
 @dataclass(frozen=True)
@@ -292,6 +302,7 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         raise bad("deliberately_broken", f"must be true or false, got {broken!r}")
 
     seed = whole("seed", 0)
+    settle, delays, delays_hash = _settle_keys(table, path, bad)
     key_where = []
     for key in table:
         n = _key_line(lines, start, end, key) if start else None
@@ -304,7 +315,30 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         include_dirs=tuple(include_dirs), defines=tuple(defines),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
         exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
-        key_where=tuple(key_where))
+        key_where=tuple(key_where), settle_within=settle, delays=delays, delays_hash=delays_hash)
+
+
+
+def _settle_keys(table: dict, path: Path, bad) -> tuple:
+    """A manifest entry's ``settle_within`` (a time >= 0) and ``delays`` ('unit' or a TOML file
+    beside the manifest at ``path``): (time, delays, sha256 of the table); ``bad(key, message)``
+    makes the manifest's InputError."""
+    import hashlib
+    settle, delays = table.get("settle_within"), table.get("delays")
+    if settle is not None and (isinstance(settle, bool) or not isinstance(settle, (int, float))
+                               or not settle >= 0):
+        raise bad("settle_within", f"must be a time >= 0 in the delay model's unit, got {settle!r}")
+    if delays is not None and (not isinstance(delays, str) or not delays.strip()):
+        raise bad("delays", f"give 'unit' or the path of a TOML delay table, got {delays!r}")
+    if delays is not None and settle is None:
+        raise bad("delays", "applies with settle_within only")
+    digest = None
+    if delays is not None and delays.strip().lower() != "unit":
+        f = path.parent / delays
+        if not f.is_file():
+            raise bad("delays", f"'{delays}': no such file")
+        digest = hashlib.sha256(f.read_bytes()).hexdigest()
+    return (None if settle is None else float(settle)), delays, digest
 
 
 def _similar(a: str, b: str) -> bool:
@@ -363,7 +397,10 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryR
                       defines=dict(entry.defines) or None)
         result = check(design, entry.spec, engine=entry.method, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.time_limit, require=entry.require,
-                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
+                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
+                       settle_within=entry.settle_within,
+                       delays=entry.delays if entry.delays in (None, "unit")
+                       else str(root / entry.delays))
     except InputError as e:
         fault = manifest_fault(e)
         return EntryRecord(**base, verdict=Verdict.ERROR,

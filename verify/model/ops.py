@@ -32,6 +32,13 @@ Each row gives the op's meaning in five forms:
 - ``clauses(out, args, fresh)``: CNF clauses (lists of non-zero ints, DIMACS style) that hold
   exactly when the literal ``out`` equals the op of the literals ``args`` (the Tseitin encoding);
   ``fresh()`` hands out new variable numbers (only XOR/XNOR of three or more inputs need them).
+- ``settle(k)``: the floating-mode rule, as the minimal sets of inputs that settle the output of
+  a ``k``-input gate. Each set is a tuple of ``(input index, value)``: the output is determined
+  once every input of some set is stable, at ``value`` where that is 0 or 1 (``None``: at
+  whatever value). ``determined(stable, values)`` applies it to one vector. The rule in words:
+  one input at the controlling value settles and/or/nand/nor, otherwise all of them; xor/xnor
+  need every input; a mux needs its select and the selected input, or both data inputs equal; a
+  majority gate needs two equal inputs; not/buf need their input; a constant needs nothing.
 """
 
 from __future__ import annotations
@@ -55,6 +62,8 @@ class Op:
     controlling: int | None = None
     #: the output when an input is at its controlling value (and: 0, nand: 1)
     controlled: int | None = None
+    #: floating-mode rule (see the module doc): k -> minimal settling input sets
+    settle: Callable[[int], list[tuple[tuple[int, int | None], ...]]] | None = None
 
     def arity_ok(self, n: int) -> bool:
         return n >= self.min_inputs and (self.max_inputs is None or n <= self.max_inputs)
@@ -66,6 +75,37 @@ class Op:
     def bit(self, values: Sequence[int]) -> int:
         """The output for one vector of 0/1 inputs."""
         return self.evaluate(values, 1) & 1
+
+    def settling_sets(self, k: int) -> list[tuple[tuple[int, int | None], ...]]:
+        """The floating-mode rule for ``k`` inputs: the minimal input sets that settle the output."""
+        return self.settle(k)
+
+    def determined(self, stable: Sequence[bool], values: Sequence[int]) -> bool:
+        """Whether the inputs marked stable, at their ``values``, fix the output (floating mode)."""
+        return any(all(stable[i] and (v is None or values[i] == v) for i, v in group)
+                   for group in self.settle(len(stable)))
+
+
+def _settle_all(k: int):
+    return [tuple((i, None) for i in range(k))]
+
+
+def _settle_controlled(c: int):
+    def rule(k: int):
+        return [((i, c),) for i in range(k)] + _settle_all(k)
+    return rule
+
+
+def _settle_mux(k: int):
+    return [((0, 0), (1, None)), ((0, 1), (2, None)), ((1, 0), (2, 0)), ((1, 1), (2, 1))]
+
+
+def _settle_maj(k: int):
+    return [((i, v), (j, v)) for i in range(3) for j in range(i + 1, 3) for v in (0, 1)]
+
+
+def _settle_nothing(k: int):
+    return [()]
 
 
 def _join(sym: str, a: Sequence[str]) -> str:
@@ -136,28 +176,37 @@ def _same(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
 
 OPS: dict[str, Op] = {op.name: op for op in (
     Op("and", 2, None, lambda a: _join("&", a), lambda a: _z3().And(*a),
-       lambda a: _join("&", a), _and_cnf, controlling=0, controlled=0),
+       lambda a: _join("&", a), _and_cnf, controlling=0, controlled=0,
+       settle=_settle_controlled(0)),
     Op("or", 2, None, lambda a: _join("|", a), lambda a: _z3().Or(*a),
-       lambda a: _join("|", a), _or_cnf, controlling=1, controlled=1),
-    Op("xor", 2, None, lambda a: _join("^", a), _z3_xor, lambda a: _join("^", a), _xor_clauses),
+       lambda a: _join("|", a), _or_cnf, controlling=1, controlled=1,
+       settle=_settle_controlled(1)),
+    Op("xor", 2, None, lambda a: _join("^", a), _z3_xor, lambda a: _join("^", a), _xor_clauses,
+       settle=_settle_all),
     Op("nand", 2, None, lambda a: f"({_join('&', a)}) ^ M", lambda a: _z3().Not(_z3().And(*a)),
-       lambda a: f"~({_join('&', a)})", _negated(_and_cnf), controlling=0, controlled=1),
+       lambda a: f"~({_join('&', a)})", _negated(_and_cnf), controlling=0, controlled=1,
+       settle=_settle_controlled(0)),
     Op("nor", 2, None, lambda a: f"({_join('|', a)}) ^ M", lambda a: _z3().Not(_z3().Or(*a)),
-       lambda a: f"~({_join('|', a)})", _negated(_or_cnf), controlling=1, controlled=0),
+       lambda a: f"~({_join('|', a)})", _negated(_or_cnf), controlling=1, controlled=0,
+       settle=_settle_controlled(1)),
     Op("xnor", 2, None, lambda a: f"({_join('^', a)}) ^ M", lambda a: _z3().Not(_z3_xor(a)),
-       lambda a: f"~({_join('^', a)})", _negated(_xor_clauses)),
+       lambda a: f"~({_join('^', a)})", _negated(_xor_clauses),
+       settle=_settle_all),
     Op("not", 1, 1, lambda a: f"{a[0]} ^ M", lambda a: _z3().Not(a[0]), lambda a: f"~{a[0]}",
-       lambda o, a, fresh=None: _same(-o, a)),
-    Op("buf", 1, 1, lambda a: a[0], lambda a: a[0], lambda a: a[0], _same),
+       lambda o, a, fresh=None: _same(-o, a), settle=_settle_all),
+    Op("buf", 1, 1, lambda a: a[0], lambda a: a[0], lambda a: a[0], _same,
+       settle=_settle_all),
     Op("mux", 3, 3, lambda a: f"{a[1]} ^ ({a[0]} & ({a[1]} ^ {a[2]}))",
-       lambda a: _z3().If(a[0], a[2], a[1]), lambda a: f"{a[0]} ? {a[2]} : {a[1]}", _mux_cnf),
+       lambda a: _z3().If(a[0], a[2], a[1]), lambda a: f"{a[0]} ? {a[2]} : {a[1]}", _mux_cnf,
+       settle=_settle_mux),
     Op("maj", 3, 3, lambda a: f"({a[0]} & {a[1]}) | ({a[2]} & ({a[0]} | {a[1]}))",
        lambda a: _z3().Or(_z3().And(a[0], a[1]), _z3().And(a[2], _z3().Or(a[0], a[1]))),
-       lambda a: f"({a[0]} & {a[1]}) | ({a[2]} & ({a[0]} | {a[1]}))", _maj_cnf),
+       lambda a: f"({a[0]} & {a[1]}) | ({a[2]} & ({a[0]} | {a[1]}))", _maj_cnf,
+       settle=_settle_maj),
     Op("const0", 0, 0, lambda a: "0", lambda a: _z3().BoolVal(False), lambda a: "1'b0",
-       lambda o, a, fresh=None: [[-o]]),
+       lambda o, a, fresh=None: [[-o]], settle=_settle_nothing),
     Op("const1", 0, 0, lambda a: "M", lambda a: _z3().BoolVal(True), lambda a: "1'b1",
-       lambda o, a, fresh=None: [[o]]),
+       lambda o, a, fresh=None: [[o]], settle=_settle_nothing),
 )}
 
 

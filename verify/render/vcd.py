@@ -8,12 +8,15 @@ with a bit index written as a VCD bit select (``G [3]``). A scope ``spec`` besid
 what the spec expects of each output and ``fails``, 1 in the steps where some output differs.
 
 ``write(path, design, vectors, expected=...)`` simulates the vectors (bit-parallel) and writes the
-file; ``dumps`` returns the text.
+file; ``dumps`` returns the text. ``dumps_timed(waveform, timescale=...)`` writes a timed waveform
+of one input transition (``verify.timing.events``): real time stamps, one value change per gate
+event, unknown values as ``x``. The text itself is written by pyvcd (``vcd.VCDWriter``).
 """
 
 from __future__ import annotations
 
 import datetime as _dt
+import io
 import re
 from pathlib import Path
 from typing import Mapping, Sequence
@@ -25,33 +28,68 @@ _BIT = re.compile(r"^(?P<name>.+)\[(?P<index>-?\d+)\]$")
 SPEC_SCOPE = "spec"
 
 
-def _code(k: int) -> str:
-    """Short identifier code k in printable ASCII 33..126 (base 94)."""
-    out = ""
-    k += 1
-    while k:
-        k -= 1
-        out += chr(33 + k % 94)
-        k //= 94
-    return out
-
-
 def _clean(name: str) -> str:
     return re.sub(r"\s+", "_", name) or "_"
 
 
 class _Var:
-    def __init__(self, code: str, width: int, ref: str, net_bits: list[str] | None,
-                 values: list[int]):
-        self.code = code
-        self.width = width
-        self.ref = ref  # "a [7:0]", "G [3]", "p"
-        self.values = values  # one int per time step
+    """One variable to declare: its scope path, width, reference text and values."""
 
-    def change(self, v: int) -> str:
-        if self.width == 1:
-            return f"{v & 1}{self.code}"
-        return f"b{v:b} {self.code}"
+    def __init__(self, scope: list[str], width: int, ref: str, values):
+        self.scope, self.width, self.ref, self.values = scope, width, ref, values
+
+
+def _port_ref(name: str, width: int) -> str:
+    return _clean(name) + (f" [{width - 1}:0]" if width > 1 else "")
+
+
+def _net_place(top: str, net: str) -> tuple[list[str], str]:
+    """(scope path, reference) of an internal net: dots make scopes, a bit index a bit select."""
+    parts = net.split(".")
+    scope, leaf = [top, *[_clean(x) for x in parts[:-1] if x]], parts[-1]
+    m = _BIT.match(leaf)
+    return scope, (f"{_clean(m['name'])} [{m['index']}]" if m else _clean(leaf))
+
+
+def _header(comment: str | None, notes: Sequence[str]) -> str:
+    # the report mark must be on one of the first lines (verify.files looks there)
+    lines = ["adder-verify report (vcd)"]
+    if comment:
+        lines.append(comment.replace("$end", "(end)"))
+    lines += [n.replace("$end", "(end)") for n in notes]
+    return "\n".join(lines)
+
+
+def _render(vars_: list[_Var], times: Sequence[int], timescale: str, comment: str,
+            date: str | None, end_time: int) -> str:
+    """The VCD text (pyvcd): every var's value at each of ``times`` (values[k] at times[k])."""
+    from vcd import VCDWriter
+
+    from verify import __version__
+
+    out = io.StringIO()
+    stamp = date or _dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M:%S UTC")
+    with VCDWriter(out, timescale=timescale, date=stamp, comment=comment,
+                   version=f"adder-verify {__version__}") as w:
+        handles = []
+        for v in vars_:
+            init = _value(v.values[0], v.width)
+            handles.append(w.register_var(v.scope, v.ref, "wire", size=v.width, init=init))
+        for k in range(1, len(times)):
+            for v, h in zip(vars_, handles):
+                if v.values[k] != v.values[k - 1]:
+                    w.change(h, times[k], _value(v.values[k], v.width))
+        w.close(end_time)
+    return out.getvalue()
+
+
+def _value(v, width: int):
+    """A value for pyvcd: an int, or for unknown bits 'x' (a string of 0/1/x for a vector)."""
+    if v is None:
+        return "x"
+    if isinstance(v, str):
+        return v
+    return int(v)
 
 
 def dumps(design: Netlist, vectors: Sequence[Mapping[str, int]], *,
@@ -83,82 +121,90 @@ def dumps(design: Netlist, vectors: Sequence[Mapping[str, int]], *,
                     out[j] |= 1 << i
         return out
 
-    tree: dict = {"vars": [], "scopes": {}}
-    k = 0
-
-    def add(scope_path: list[str], width: int, ref: str, values: list[int]) -> None:
-        nonlocal k
-        node = tree
-        for s in scope_path:
-            node = node["scopes"].setdefault(s, {"vars": [], "scopes": {}})
-        node["vars"].append(_Var(_code(k), width, ref, None, values))
-        k += 1
-
+    vars_: list[_Var] = []
     top = _clean(design.name)
     for p in (*design.inputs, *design.outputs):
-        ref = _clean(p.name) + (f" [{p.width - 1}:0]" if p.width > 1 else "")
-        add([top], p.width, ref, port_values(p))
+        vars_.append(_Var([top], p.width, _port_ref(p.name, p.width), port_values(p)))
     if internal:
         port_bits = set(design.input_bits) | set(design.output_bits)
         for g in design.ordered_gates:
             if g.output in port_bits:
                 continue
-            parts = g.output.split(".")
-            scope, leaf = [top, *[_clean(x) for x in parts[:-1] if x]], parts[-1]
-            m = _BIT.match(leaf)
-            ref = f"{_clean(m['name'])} [{m['index']}]" if m else _clean(leaf)
-            add(scope, 1, ref, bits_of(nets[g.output]))
+            scope, ref = _net_place(top, g.output)
+            vars_.append(_Var(scope, 1, ref, bits_of(nets[g.output])))
     if expected is not None:
         if len(expected) != count:
             raise ValueError("expected needs one entry per vector")
         fails = [0] * count
         for p in design.outputs:
             vals = [int(e[p.name]) for e in expected]
-            ref = _clean(p.name) + (f" [{p.width - 1}:0]" if p.width > 1 else "")
-            add([top, SPEC_SCOPE], p.width, ref, vals)
+            vars_.append(_Var([top, SPEC_SCOPE], p.width, _port_ref(p.name, p.width), vals))
         actual = {p.name: port_values(p) for p in design.outputs}
         for j, e in enumerate(expected):
             fails[j] = int(any(actual[p.name][j] != int(e[p.name]) for p in design.outputs))
-        add([top, SPEC_SCOPE], 1, "fails", fails)
+        vars_.append(_Var([top, SPEC_SCOPE], 1, "fails", fails))
+    notes = [f"step {j}: " + ", ".join(f"{p.name}={int(v.get(p.name, 0))}" for p in design.inputs)
+             for j, v in enumerate(vectors)]
+    return _render(vars_, list(range(count)), "1 ns", _header(comment, notes), date, count)
 
-    lines = [f"$date {date or _dt.datetime.now(_dt.timezone.utc).strftime('%Y-%m-%d %H:%M:%S UTC')} $end",
-             f"$version adder-verify {__version__} $end",
-             "$comment adder-verify report (vcd) $end"]
-    if comment:
-        lines.append(f"$comment {comment.replace('$end', '(end)')} $end")
-    for j, v in enumerate(vectors):
-        ins = ", ".join(f"{p.name}={int(v.get(p.name, 0))}" for p in design.inputs)
-        lines.append(f"$comment step {j}: {ins} $end")
-    lines.append("$timescale 1 ns $end")
-    all_vars: list[_Var] = []
 
-    def emit(name: str, node: dict) -> None:
-        lines.append(f"$scope module {name} $end")
-        for var in node["vars"]:
-            lines.append(f"$var wire {var.width} {var.code} {var.ref} $end")
-            all_vars.append(var)
-        for sub, child in node["scopes"].items():
-            emit(sub, child)
-        lines.append("$upscope $end")
+def dumps_timed(wave, *, timescale: str, comment: str | None = None, date: str | None = None,
+                marks: Mapping[str, Sequence[tuple[int, int]]] | None = None,
+                end_time: int | None = None) -> str:
+    """The VCD of a timed waveform (``verify.timing.events.Waveform``), time stamps in ticks.
 
-    for name, node in tree["scopes"].items():
-        emit(name, node)
-    lines.append("$enddefinitions $end")
-    lines.append("#0")
-    lines.append("$dumpvars")
-    lines.extend(var.change(var.values[0]) for var in all_vars)
-    lines.append("$end")
-    for j in range(1, count):
-        changes = [var.change(var.values[j]) for var in all_vars if var.values[j] != var.values[j - 1]]
-        lines.append(f"#{j}")
-        lines.extend(changes)
-    lines.append(f"#{count}")
-    return "\n".join(lines) + "\n"
+    Every gate event that changes a net is one value change; unknown values are ``x``. ``marks``
+    adds 1-bit variables in a ``marks`` scope, each a list of (time, value).
+    """
+    design = wave.design
+    top = _clean(design.name)
+    times = sorted({0, *(t for t, _, _ in wave.changes),
+                    *(t for ch in (marks or {}).values() for t, _ in ch)})
+    index = {t: k for k, t in enumerate(times)}
+    # the value of every net at every listed time (after that time's changes)
+    cur = dict(wave.initial)
+    at: list[dict] = []
+    k = 0
+    changes = wave.changes
+    for t in times:
+        while k < len(changes) and changes[k][0] <= t:
+            cur[changes[k][1]] = changes[k][2]
+            k += 1
+        at.append(dict(cur))
+
+    def port_values(p):
+        out = []
+        for snap in at:
+            bits = [snap[b] for b in p.bits]
+            if any(x is None for x in bits):
+                out.append("".join("x" if x is None else str(x) for x in reversed(bits)))
+            else:
+                out.append(sum(x << i for i, x in enumerate(bits)))
+        return out
+
+    vars_ = [_Var([top], p.width, _port_ref(p.name, p.width), port_values(p))
+             for p in (*design.inputs, *design.outputs)]
+    port_bits = set(design.input_bits) | set(design.output_bits)
+    for g in design.ordered_gates:
+        if g.output not in port_bits:
+            scope, ref = _net_place(top, g.output)
+            vars_.append(_Var(scope, 1, ref, [snap[g.output] for snap in at]))
+    for name, points in (marks or {}).items():
+        vals, v, pts = [], 0, sorted(points)
+        j = 0
+        for t in times:
+            while j < len(pts) and pts[j][0] <= t:
+                v = pts[j][1]
+                j += 1
+            vals.append(v)
+        vars_.append(_Var([top, "marks"], 1, _clean(name), vals))
+    del index
+    last = times[-1] if times else 0
+    return _render(vars_, times, timescale, _header(comment, []), date,
+                   end_time if end_time is not None else last + 1)
 
 
 def write(path: str | Path, design: Netlist, vectors: Sequence[Mapping[str, int]], **kw) -> Path:
     """Write ``dumps(design, vectors, **kw)`` to ``path`` (folders made as needed)."""
-    path = Path(path)
-    path.parent.mkdir(parents=True, exist_ok=True)
-    path.write_text(dumps(design, vectors, **kw), encoding="ascii", errors="replace")
-    return path
+    from verify.files import write_text
+    return write_text(path, dumps(design, vectors, **kw), what="waveform", replace_reports=True)
