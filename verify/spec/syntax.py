@@ -24,8 +24,9 @@ MAX_PRODUCT_BITS = 8192
 MAX_PRODUCT_GATES = 1_000_000
 #: the gate reference refuses a variable shift that would take more multiplexers than this
 MAX_SHIFT_GATES = 1_000_000
-#: the gate reference stops (SpecError) when it has made more gates than this
-MAX_REFERENCE_GATES = 4_000_000
+#: the gate reference is refused (SpecError) when its word operations would make more gates than
+#: this; each operation is charged before it is made (GateBuilder makes some 30,000 gates/s)
+MAX_REFERENCE_GATES = 1_000_000
 #: expressions nested deeper than this (a chain of 1000 additions, say) are refused
 MAX_DEPTH = 1000
 #: decimal numbers longer than this are refused (write wide constants in hex)

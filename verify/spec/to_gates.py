@@ -145,6 +145,14 @@ class GateCompiler(Visitor):
         self.b = b
         self.env = env
         self.text = text  # for error locations
+        self.budget = MAX_REFERENCE_GATES  # gates still allowed, charged before each word op
+
+    def spend(self, n: Node, gates: int, what: str) -> None:
+        """Charge an operation's gate count before making it: refuse once over the budget."""
+        self.budget -= gates
+        if self.budget < 0:
+            raise self.refuse(n, f"{what}; as gates the spec would take over "
+                                 f"{MAX_REFERENCE_GATES:,} gates")
 
     def refuse(self, n: Node, message: str) -> SpecError:
         return SpecError(f"{location(self.text, n.pos)}: {message}", where="spec")
@@ -158,9 +166,6 @@ class GateCompiler(Visitor):
         r = getattr(self, "visit_" + type(n).__name__)(n)
         if isinstance(r, types.GeneratorType):
             r = yield from r
-        if len(self.b.gates) > MAX_REFERENCE_GATES:
-            raise self.refuse(n, f"as gates the spec takes over {MAX_REFERENCE_GATES:,} gates "
-                                 "by here; the reference is refused")
         return _trim(r, n)
 
     def any_(self, v: Bits) -> str:
@@ -176,6 +181,7 @@ class GateCompiler(Visitor):
         n = max(n, signed_width(a.lo, a.hi), signed_width(b.lo, b.hi))
         x = yield a
         y = yield b
+        self.spend(a, 4 * n, f"this comparison is {n:,} bits wide")
         return less_than(self.b, x.low(n), y.low(n), signed=True)
 
     def add_chain(self, n: Binary, size: int):
@@ -195,6 +201,7 @@ class GateCompiler(Visitor):
         if at is not None:
             carry = terms.pop(at)
             cin = (yield carry).bit(0)
+        self.spend(n, 3 * size * max(len(terms) - 1, 1), f"this sum is {size:,} bits wide")
         acc = (yield terms[0]).low(size)
         for t in terms[1:] or [None]:
             addend = (yield t).low(size) if t is not None else [CONST0] * size
@@ -219,6 +226,7 @@ class GateCompiler(Visitor):
             return a
         if op == "-":  # 0 - a, as ~a + 1
             size = signed_width(n.lo, n.hi)
+            self.spend(n, 4 * size, f"this negation is {size:,} bits wide")
             return _from_low(subtract(b, [CONST0] * size, a.low(size))[0])
         if op == "~":
             return Bits(tuple(b.not_(x) for x in a.bits), b.not_(a.ext))
@@ -244,6 +252,7 @@ class GateCompiler(Visitor):
         x = yield n.left
         y = yield n.right
         if op == "-":
+            self.spend(n, 4 * size, f"this difference is {size:,} bits wide")
             return _from_low(subtract(b, x.low(size), y.low(size))[0])
         if op == "*":
             xs, ys = x.low(size), y.low(size)
@@ -251,6 +260,7 @@ class GateCompiler(Visitor):
             if cost > MAX_PRODUCT_GATES:
                 raise self.refuse(n, f"this product is {size} bits wide; as gates it would take "
                                      f"over {MAX_PRODUCT_GATES:,} and-gates")
+            self.spend(n, 5 * cost, f"this product is {size} bits wide")
             return _from_low(multiply(b, xs, ys, size))
         if op in ("==", "!="):
             m = max(len(x.bits), len(y.bits)) + 1
@@ -271,6 +281,7 @@ class GateCompiler(Visitor):
                 raise self.refuse(n, f"this shift is {size:,} bits wide by a {len(y.bits)}-bit "
                                      f"amount; as gates it would take over "
                                      f"{MAX_SHIFT_GATES:,} multiplexers")
+            self.spend(n, size * len(y.bits), f"this shift is {size:,} bits wide")
             return _from_low(shift_left(b, x.low(size), list(y.bits), size))
         if op in (">>", ">>>"):
             if n.right.const:
@@ -279,6 +290,7 @@ class GateCompiler(Visitor):
                 raise self.refuse(n, f"this shift is {len(x.bits):,} bits wide by a "
                                      f"{len(y.bits)}-bit amount; as gates it would take over "
                                      f"{MAX_SHIFT_GATES:,} multiplexers")
+            self.spend(n, len(x.bits) * len(y.bits), f"this shift is {len(x.bits):,} bits wide")
             return Bits(tuple(shift_right(b, list(x.bits), list(y.bits), x.ext)), x.ext)
         raise AssertionError(op)  # pragma: no cover
 
@@ -289,6 +301,7 @@ class GateCompiler(Visitor):
         t = yield n.then
         o = yield n.other
         size = signed_width(n.lo, n.hi)
+        self.spend(n, size, f"this choice is {size:,} bits wide")
         return _from_low([self.b.mux(c, q, p) for p, q in zip(t.low(size), o.low(size))])
 
     def concat(self, parts: Sequence[Node]):
@@ -311,6 +324,7 @@ class GateCompiler(Visitor):
         if len(base.bits) * len(idx.bits) > MAX_SHIFT_GATES:
             raise self.refuse(n, f"this bit select over {len(base.bits):,} bits would take over "
                                  f"{MAX_SHIFT_GATES:,} multiplexers")
+        self.spend(n, len(base.bits) * len(idx.bits), "this bit select")
         return Bits((shift_right(self.b, list(base.bits), list(idx.bits), base.ext)[0]
                      if base.bits else base.ext,))
 

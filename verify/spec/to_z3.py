@@ -168,7 +168,18 @@ class Z3Compiler(Visitor):
 
     def visit_Repeat(self, n: Repeat):
         one = yield from self.concat(n.parts)
-        return self.unsigned(one if n.times == 1 else self.z3.Concat(*[one] * n.times))
+        return self.unsigned(self.repeat(one, n.times))
+
+    def repeat(self, one, times: int):
+        """``times`` copies of one side by side, by doubling (a term of size log(times))."""
+        out, power = None, one
+        while times:
+            if times & 1:
+                out = power if out is None else self.z3.Concat(power, out)
+            times >>= 1
+            if times:
+                power = self.z3.Concat(power, power)
+        return out
 
     def visit_Index(self, n: Index):
         z3 = self.z3
