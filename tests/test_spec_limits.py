@@ -136,7 +136,7 @@ def test_a_wide_replication_of_one_bit_is_quick_in_every_translation():
     term = spec.to_z3({"a": z3.BitVecVal(1, 1)})["y"]
     assert time.perf_counter() - t < 5  # measured ~0.05 s
     assert spec.evaluate({"a": 1}) == {"y": (1 << 65_536) - 1}  # Python integers
-    assert z3.simplify(term).as_long() == (1 << 65_536) - 1
+    assert term.size() == 65_536 and z3.simplify(z3.BVRedAnd(term)).as_long() == 1  # all ones
     assert simulate(ref, {"a": 1}) == {"y": (1 << 65_536) - 1}
 
 
