@@ -1,53 +1,190 @@
-"""Inferring the usual adder spec from a design's port names and widths."""
+"""Inferring the usual adder spec from a design's port names and widths.
+
+Ports are first gathered into *items*: a port, or a bit-blasted group of 1-bit ports sharing a
+stem with indices 0..n-1 (``a_0 .. a_127``, ``a0 .. a127``, ``b[0] .. b[7]``), which stands
+for the word ``{a_127, ..., a_0}``. Roles are then read from widths and names. A name is
+compared without case and without decoration around its core (``i_a``, ``a_i``, ``op_a``,
+``in_b``, ``operand_a``, ``o_sum``, ``sum_o``, ``ow_cout``, ``carry_in``): see :func:`cores`.
+
+When the ports do not tell, the refusal is one sentence saying what was found, with a best-guess
+``--spec`` line to write.
+"""
 
 from __future__ import annotations
 
+import re
+from dataclasses import dataclass
 from typing import Sequence
 
 from verify.errors import SpecError
 from verify.model.netlist import Netlist, Port
 from verify.spec.model import Spec, parse
-from verify.spec.printer import name_text as _name_text
+from verify.spec.printer import name_text
 
-_CARRY_IN = {"cin", "ci", "c_in", "carry_in", "carryin", "cin0", "cy_in", "cyin"}
-_CARRY_OUT = {"cout", "co", "c_out", "carry_out", "carryout", "c", "carry", "cy", "cy_out"}
-_SUM = {"s", "sum", "sum0", "s0"}
-_OVERFLOW = {"v", "ovf", "overflow", "ov", "vout", "ovfl"}
+_CARRY_IN = {"cin", "ci", "c_in", "carry_in", "carryin", "cin0", "cy_in", "cyin", "c0"}
+_CARRY_OUT = {"cout", "co", "c_out", "carry_out", "carryout", "c", "carry", "cy", "cy_out",
+              "cyout"}
+_SUM = {"s", "sum", "sum0", "s0", "res", "result", "out", "y", "f", "r", "z", "dout"}
+_OVERFLOW = {"v", "ovf", "overflow", "ov", "vout", "ovfl", "of"}
 #: a lone 1-bit input with one of these names is not taken for a carry-in
 _CONTROL = {"m", "mode", "sub", "subtract", "add_sub", "addsub", "op", "sel", "select", "s",
             "en", "enable", "neg", "inv", "invert", "ctrl", "cmd"}
+#: decoration around a name's core: direction, kind of net, "operand"
+_PREFIXES = {"i", "o", "in", "out", "ow", "iw", "w", "r", "ro", "ri", "io", "p", "port", "op",
+             "operand", "opnd", "src", "data", "din", "arg", "reg", "wire", "sig"}
+_SUFFIXES = {"i", "o", "in", "out", "w", "r", "reg", "wire", "q", "ow", "iw", "port", "sig"}
+_OPERAND = re.compile(r"^(?:[abxy]|(?:in|op|operand|src|data|d|i|x)_?(?:[ab]|\d+))$")
+_INDEXED = re.compile(r"^(?P<stem>.*?[A-Za-z_$])(?:\[(?P<br>\d+)\]|(?P<num>\d+))$")
+_LIST_MAX = 6
 
 
-def _looks(name: str, names: set[str]) -> bool:
-    """Name match ignoring case and a direction prefix or suffix (i_cin, cin_i, o_sum, ...)."""
-    n = name.lower()
-    candidates = {n}
-    for pre in ("i_", "o_", "in_", "out_"):
-        if n.startswith(pre):
-            candidates.add(n[len(pre):])
-    for suf in ("_i", "_o"):
-        if n.endswith(suf):
-            candidates.add(n[:-len(suf)])
-    return bool(candidates & names)
+def cores(name: str) -> list[str]:
+    """The name's possible cores, fewest decorations dropped first: 'i_carry_in' gives
+    'i_carry_in', 'carry_in', 'i_carry', 'carry', ... (tokens split at '_')."""
+    toks = [t for t in re.split(r"[_.$]+", name.lower()) if t]
+    if not toks:
+        return [name.lower()]
+    starts = [0]
+    while starts[-1] < len(toks) - 1 and toks[starts[-1]] in _PREFIXES:
+        starts.append(starts[-1] + 1)
+    ends = [len(toks)]
+    while ends[-1] > 1 and toks[ends[-1] - 1] in _SUFFIXES:
+        ends.append(ends[-1] - 1)
+    pairs = sorted(((s, e) for s in starts for e in ends if e > s),
+                   key=lambda se: se[0] + len(toks) - se[1])
+    out: list[str] = []
+    for s, e in pairs:
+        for core in ("_".join(toks[s:e]), "".join(toks[s:e])):
+            if core not in out:
+                out.append(core)
+    return out
 
 
-def _plist(ports: Sequence[Port]) -> str:
-    return ", ".join(str(p) for p in ports)
+def _is(name: str, names: set[str]) -> bool:
+    return any(c in names for c in cores(name))
+
+
+def _is_operand(name: str) -> bool:
+    return any(_OPERAND.match(c) for c in cores(name))
+
+
+def _operand_key(name: str) -> int | None:
+    """a/x first, b/y second, digits by value; None when the name is no operand name."""
+    for c in cores(name):
+        if _OPERAND.match(c):
+            m = re.search(r"\d+$", c)
+            return int(m.group()) if m else (0 if c[-1] in "ax" else 1)
+    return None
+
+
+# ==== items: ports and bit-blasted groups ====================================================
+
+@dataclass(frozen=True)
+class Item:
+    name: str                  # the stem of a group, else the port name
+    ports: tuple[Port, ...]    # MSB first for a group
+    group: bool
+
+    @property
+    def width(self) -> int:
+        return len(self.ports) if self.group else self.ports[0].width
+
+    @property
+    def label(self) -> str:
+        """For messages: 'a[3:0]', 'cin', or 'a_0..a_127' for a group."""
+        if self.group:
+            return f"{self.ports[-1].name}..{self.ports[0].name}"
+        return str(self.ports[0])
+
+    @property
+    def parts(self) -> list[str]:
+        """Spec text of each piece, MSB first."""
+        return [name_text(p.name) for p in self.ports]
+
+    @property
+    def text(self) -> str:
+        parts = self.parts
+        return parts[0] if len(parts) == 1 else "{" + ", ".join(parts) + "}"
+
+    def short(self, lhs: bool = False) -> str:
+        """For a message: a long group as '{a_127, ..., a_0}' (to be written out in full)."""
+        parts = self.parts
+        if len(parts) > 4:
+            parts = [parts[0], "...", parts[-1]]
+        return ", ".join(parts) if lhs else parts[0] if len(parts) == 1 else "{" + ", ".join(parts) + "}"
+
+
+def items(ports: Sequence[Port]) -> list[Item]:
+    """Ports in design order, each bit-blasted group (1-bit ports ``stem<i>``, ``stem_<i>`` or
+    ``stem[<i>]`` with every index 0..n-1, n >= 2) joined into one item at its first port."""
+    groups: dict[tuple[str, str], dict[int, Port]] = {}
+    for p in ports:
+        m = _INDEXED.match(p.name) if p.width == 1 else None
+        if m:
+            style = "[]" if m.group("br") is not None else "#"
+            index = int(m.group("br") if m.group("br") is not None else m.group("num"))
+            groups.setdefault((m.group("stem"), style), {})[index] = p
+    member: dict[str, Item] = {}
+    for (stem, _), by_index in groups.items():
+        n = len(by_index)
+        if n >= 2 and sorted(by_index) == list(range(n)):
+            item = Item(stem.rstrip("_"),
+                        tuple(by_index[i] for i in reversed(range(n))), True)
+            for p in item.ports:
+                member[p.name] = item
+    out: list[Item] = []
+    for p in ports:
+        item = member.get(p.name, Item(p.name, (p,), False))
+        if item not in out:
+            out.append(item)
+    return out
+
+
+def _plist(found: Sequence[Item]) -> str:
+    labels = [i.label for i in found]
+    if len(labels) > _LIST_MAX:
+        labels = labels[:_LIST_MAX - 1] + [f"... ({len(found)} in all)"]
+    return ", ".join(labels)
+
+
+# ==== inference ==============================================================================
+
+def _guess(ins: list[Item], outs: list[Item]) -> str:
+    """A best-guess spec line from whatever the ports offer, for a refusal to show."""
+    def pick(pool, test, n):
+        named = [i for i in pool if test(i)]
+        rest = sorted((i for i in pool if i not in named), key=lambda i: -i.width)
+        return (named + rest)[:n]
+    one_in = [i for i in ins if i.width == 1]
+    cin = next((i for i in one_in if _is(i.name, _CARRY_IN)), None)
+    ops = pick([i for i in ins if i is not cin], lambda i: _is_operand(i.name), 2)
+    cout = next((i for i in outs if i.width == 1 and _is(i.name, _CARRY_OUT)), None)
+    summ = pick([i for i in outs if i is not cout], lambda i: _is(i.name, _SUM), 1)
+    if len(ops) < 2 or not summ:
+        return "{cout, sum} = a + b + cin"
+    rhs = " + ".join(i.short() for i in ops) + (f" + {cin.short()}" if cin else "")
+    lhs = "{" + f"{cout.short(True)}, {summ[0].short(True)}" + "}" if cout else summ[0].short()
+    return f"{lhs} = {rhs}"
 
 
 def infer(design: Netlist) -> Spec:
     """The usual adder spec for a design, from its port names and widths.
 
-    Refuses (SpecError naming the ports) when the ports do not tell which spec is meant.
+    Refuses (SpecError naming the ports, with a best-guess --spec line) when the ports do not
+    tell which spec is meant.
     """
-    def refuse(why: str) -> SpecError:
-        return SpecError(f"cannot infer a spec for {design.name}: {why}; give one with --spec, "
-                         "e.g. --spec '{cout, sum} = a + b + cin'", where="spec")
+    ins, outs = items(design.inputs), items(design.outputs)
 
-    wide = [p for p in design.inputs if p.width > 1]
-    single = [p for p in design.inputs if p.width == 1]
+    def refuse(why: str) -> SpecError:
+        guess = _guess(ins, outs).replace("'", "\\'")
+        return SpecError(f"cannot infer a spec for {design.name}: {why}; give one with --spec, "
+                         f"e.g. --spec '{guess}'", where="spec")
+
+    wide = [i for i in ins if i.width > 1]
+    single = [i for i in ins if i.width == 1]
     if len(wide) > 2:
-        raise refuse(f"more than two multi-bit inputs ({_plist(wide)})")
+        raise refuse(f"more than two multi-bit inputs ({_plist(wide)}): cannot tell which are "
+                     "the operands")
     if len(wide) == 1:
         raise refuse(f"only one multi-bit input ({_plist(wide)}); an adder has two operands")
     if len(wide) == 2:
@@ -57,7 +194,7 @@ def infer(design: Netlist) -> Spec:
         n = a.width
         if len(single) > 1:
             raise refuse(f"several 1-bit inputs ({_plist(single)}) besides the operands "
-                         f"{a.name}, {b.name}: cannot tell which is the carry-in")
+                         f"{a.label}, {b.label}: cannot tell which is the carry-in")
         cin = single[0] if single else None
     else:
         n = 1
@@ -67,42 +204,44 @@ def infer(design: Netlist) -> Spec:
         if len(single) == 2:
             (a, b), cin = single, None
         else:
-            named = [p for p in single if _looks(p.name, _CARRY_IN)]
+            named = [i for i in single if _is(i.name, _CARRY_IN)]
             if len(named) > 1:
                 raise refuse(f"several inputs look like a carry-in ({_plist(named)})")
             cin = named[0] if named else single[2]
-            a, b = [p for p in single if p is not cin]
-    if cin is not None and not _looks(cin.name, _CARRY_IN) and _looks(cin.name, _CONTROL):
-        raise refuse(f"the 1-bit input {cin.name} looks like a mode or control bit, not a "
+            a, b = [i for i in single if i is not cin]
+    if cin is not None and not _is(cin.name, _CARRY_IN) and _is(cin.name, _CONTROL):
+        raise refuse(f"the 1-bit input {cin.label} looks like a mode or control bit, not a "
                      "carry-in")
+    ka, kb = _operand_key(a.name), _operand_key(b.name)
+    if ka is not None and kb is not None and kb < ka:
+        a, b = b, a
 
-    outs = list(design.outputs)
-    full = [p for p in outs if p.width == n + 1]
-    summ = [p for p in outs if p.width == n] if n > 1 else []
-    ones = [p for p in outs if p.width == 1]
-    odd = [p for p in outs if p not in full and p not in summ and p not in ones]
+    full = [i for i in outs if i.width == n + 1]
+    summ = [i for i in outs if i.width == n] if n > 1 else []
+    ones = [i for i in outs if i.width == 1]
+    odd = [i for i in outs if i not in full and i not in summ and i not in ones]
     if odd:
         raise refuse(f"output{'s' if len(odd) > 1 else ''} {_plist(odd)} "
                      f"fit{'s' if len(odd) == 1 else ''} no adder shape for {n}-bit operands")
-    terms = f"{_name_text(a.name)} + {_name_text(b.name)}" + (f" + {_name_text(cin.name)}" if cin else "")
+    terms = f"{a.text} + {b.text}" + (f" + {cin.text}" if cin else "")
     if full:
         if len(outs) > 1:
             raise refuse(f"a result of {n + 1} bits ({_plist(full)}) and other outputs "
-                         f"({_plist([p for p in outs if p is not full[0]])})")
-        return parse(f"{_name_text(full[0].name)} = {terms}", design, inferred=True)
+                         f"({_plist([i for i in outs if i is not full[0]])})")
+        return parse(f"{full[0].text} = {terms}", design, inferred=True)
 
-    carry = [p for p in ones if _looks(p.name, _CARRY_OUT)]
-    ovf = [p for p in ones if _looks(p.name, _OVERFLOW)]
+    carry = [i for i in ones if _is(i.name, _CARRY_OUT)]
+    ovf = [i for i in ones if _is(i.name, _OVERFLOW) and i not in carry]
     if n == 1:
-        named_sum = [p for p in ones if _looks(p.name, _SUM)]
+        named_sum = [i for i in ones if _is(i.name, _SUM) and i not in carry and i not in ovf]
         if len(named_sum) != 1:
             raise refuse(f"the 1-bit outputs ({_plist(ones)}) do not tell which one is the sum "
                          "(name it s or sum, the carry c, co or cout)")
         summ = named_sum
-        ones = [p for p in ones if p is not summ[0]]
+        ones = [i for i in ones if i is not summ[0]]
     elif len(summ) != 1:
         raise refuse(f"expected one {n}-bit sum output, found {len(summ)} ({_plist(summ) or 'none'})")
-    unknown = [p for p in ones if p not in carry and p not in ovf]
+    unknown = [i for i in ones if i not in carry and i not in ovf]
     if unknown:
         raise refuse(f"1-bit output{'s' if len(unknown) > 1 else ''} {_plist(unknown)} "
                      "named neither as a carry-out (cout, co, c_out, carry_out, c) nor as an "
@@ -111,12 +250,12 @@ def infer(design: Netlist) -> Spec:
         raise refuse(f"several outputs look like a carry-out ({_plist(carry)})")
     if len(ovf) > 1:
         raise refuse(f"several outputs look like an overflow flag ({_plist(ovf)})")
-    s = _name_text(summ[0].name)
-    lhs = f"{{{_name_text(carry[0].name)}, {s}}}" if carry else s
+    s = summ[0]
+    lhs = "{" + ", ".join([*carry[0].parts, *s.parts]) + "}" if carry else s.text
     text = f"{lhs} = {terms}"
     if ovf:
-        signed_terms = f"$signed({_name_text(a.name)}) + $signed({_name_text(b.name)})"
+        signed_terms = f"$signed({a.text}) + $signed({b.text})"
         if cin:
-            signed_terms += f" + {_name_text(cin.name)}"
-        text += f"; {_name_text(ovf[0].name)} = ({signed_terms}) != $signed({s})"
+            signed_terms += f" + {cin.text}"
+        text += f"; {ovf[0].text} = ({signed_terms}) != $signed({s.text})"
     return parse(text, design, inferred=True)
