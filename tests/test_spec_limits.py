@@ -140,6 +140,20 @@ def test_a_wide_replication_of_one_bit_is_quick_in_every_translation():
     assert simulate(ref, {"a": 1}) == {"y": (1 << 65_536) - 1}
 
 
+def test_the_gate_budget_is_charged_before_the_gates_are_made(monkeypatch):
+    import verify.spec.to_gates as to_gates
+    monkeypatch.setattr(to_gates, "MAX_REFERENCE_GATES", 20_000)
+    d = design({"a": 32, "b": 32}, {"y": 64})
+    spec = parse("y = (a * b) * (a * b) * (a * b)", d)
+    with pytest.raises(SpecError, match=r"column \d+: this product is \d+ bits wide; as gates the "
+                                        r"spec would take over 20,000 gates") as info:
+        spec.reference()
+    assert "\n" not in str(info.value)
+    small = parse("y = a * b", d).reference()  # 1,024 and-gates and their adders: in budget
+    v = {"a": 0xFFFF0001, "b": 0x12345}
+    assert simulate(small, v) == {"y": 0xFFFF0001 * 0x12345}  # Python integers
+
+
 @pytest.mark.slow
 def test_the_gate_reference_is_refused_when_it_would_be_too_large():
     d = design({"a": 32, "b": 32}, {"y": 64})
