@@ -39,20 +39,29 @@ def prove(got, want) -> tuple[str, float]:
     return str(answer), time.perf_counter() - t
 
 
+FULL = ("res = sub ? a - b : a + b; cout = sub ? a >= b : (a + b) >> {w};"
+        "ovf = (sub ? $signed(a) - $signed(b) : $signed(a) + $signed(b)) != $signed(res)")
+
+
 def main(widths: list[int]) -> None:
-    print(f"{'width':>5}  {'spec.to_z3 (a + ~b + 1)':>26}  {'baseline: z3 a - b':>22}")
+    print(f"{'width':>5}  {'spec.to_z3 (a + ~b + 1)':>26}  {'baseline: z3 a - b':>22}  "
+          f"{'all three outputs (res, cout by >=, ovf)':>42}")
     for w in widths:
         design = load(ROOT / "tests/verilog/larkspur_addsub.v", top="larkspur_addsub",
                       params={"W": w})
         spec = parse("res = sub ? a - b : a + b; cout = 0; ovf = 0", design)
         ins = {p.name: z3.BitVec(p.name, p.width) for p in design.inputs}
-        got = design_terms(design, ins)["res"]
+        terms = design_terms(design, ins)
+        got = terms["res"]
         ours = spec.to_z3(ins)["res"]
         a, b, sub = ins["a"], ins["b"], ins["sub"]
         base = z3.If(sub == 1, a - b, a + b)
         r1, t1 = prove(got, ours)
         r2, t2 = prove(got, base)
-        print(f"{w:>5}  {r1:>7} {t1:>15.3f} s  {r2:>7} {t2:>11.3f} s")
+        full = parse(FULL.format(w=w), design).to_z3(ins)
+        r3, t3 = prove(z3.Concat(*[terms[p.name] for p in design.outputs]),
+                       z3.Concat(*[full[p.name] for p in design.outputs]))
+        print(f"{w:>5}  {r1:>7} {t1:>15.3f} s  {r2:>7} {t2:>11.3f} s  {r3:>20} {t3:>18.3f} s")
 
 
 if __name__ == "__main__":
