@@ -1,4 +1,4 @@
-"""Tests for verify/spec.py: parsing, the three translations (ints, gates, z3) and inference.
+"""Tests for verify/spec/: parsing, the three translations (ints, gates, z3) and inference.
 
 Outside references used here, named beside each check:
 * Python's own integer arithmetic and operator precedence (where it coincides with Verilog);
