@@ -8,7 +8,6 @@ of verify/sim.py).
 
 from __future__ import annotations
 
-import pickle
 import random
 import subprocess
 import sys

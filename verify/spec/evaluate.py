@@ -12,7 +12,8 @@ import operator
 from typing import Callable, Mapping, Sequence
 
 from verify.spec.syntax import (Binary, Cast, Concat, Index, Name, Node, Number, Repeat, Slice,
-                                Ternary, Unary, Visitor)
+                                Ternary, Unary)
+from verify.spec.walk import Visitor
 
 Env = Mapping[str, int]
 

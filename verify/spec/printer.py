@@ -5,7 +5,8 @@ from __future__ import annotations
 from typing import Mapping
 
 from verify.spec.syntax import (BINARY_PREC, SIMPLE_NAME, Binary, Cast, Concat, Equation, Index,
-                                Name, Node, Number, Repeat, Slice, Target, Ternary, Unary, Visitor)
+                                Name, Node, Number, Repeat, Slice, Target, Ternary, Unary)
+from verify.spec.walk import Visitor
 
 _PRINT_PREC = {**BINARY_PREC, "?": 0}
 _ARITH = {"+", "-", "*"}

@@ -17,7 +17,8 @@ from verify.model.netlist import Netlist
 from verify.spec.evaluate import fold
 from verify.spec.syntax import (MAX_BITS, MAX_DEPTH, MAX_PRODUCT_BITS, UNSIZED_WIDTH, Binary, Cast,
                                 Concat, Equation, Index, Name, Node, Number, Repeat, Slice, Target,
-                                Ternary, Unary, Visitor, error, location, too_deep)
+                                Ternary, Unary, error, location, too_deep)
+from verify.spec.walk import Visitor
 
 
 # ==== interval helpers =======================================================================

@@ -1,7 +1,7 @@
 """Spec text to syntax trees: limits, locations, the lexer, the node kinds and the parser.
 
 Nothing here recurses on the depth of the text: the parser and every translation run as
-generators on one explicit stack (:func:`run`), so a deeply nested spec costs memory, never
+generators on one explicit stack (:mod:`verify.spec.walk`), so a deeply nested spec costs memory, never
 Python stack, and the process recursion limit is never touched. Nesting beyond
 :data:`MAX_DEPTH` is refused with one SpecError naming the depth.
 """
@@ -9,12 +9,12 @@ Python stack, and the process recursion limit is never touched. Nesting beyond
 from __future__ import annotations
 
 import re
-import types
 from dataclasses import dataclass, field
-from typing import Any, Generator, NamedTuple
+from typing import Any, NamedTuple
 
 from verify.errors import SpecError
 from verify.model.netlist import MAX_PORT_WIDTH
+from verify.spec.walk import run
 
 #: the widest value anywhere in a spec: two of the widest ports side by side
 MAX_BITS = 2 * MAX_PORT_WIDTH
@@ -52,49 +52,6 @@ def error(text: str, pos: int, message: str) -> SpecError:
 
 def too_deep(text: str, pos: int) -> SpecError:
     return error(text, pos, f"the expression is nested more than {MAX_DEPTH} levels deep")
-
-
-# ==== one explicit stack instead of recursion ==================================================
-
-def run(start: Generator) -> Any:
-    """Drive a generator that yields sub-generators: each yielded generator runs to its end and
-    its return value is sent back to the one that yielded it. No Python recursion."""
-    stack = [start]
-    value = None
-    while True:
-        try:
-            item = stack[-1].send(value)
-        except StopIteration as stop:
-            stack.pop()
-            if not stack:
-                return stop.value
-            value = stop.value
-            continue
-        stack.append(item)
-        value = None
-
-
-class Visitor:
-    """One method ``visit_<Kind>`` per node kind. A method that needs a child's value is a
-    generator and writes ``value = yield child``; :meth:`visit` runs them all on one stack."""
-
-    def visit(self, node: Node) -> Any:
-        r = self.node(node)
-        return run(self._expand(r)) if isinstance(r, types.GeneratorType) else r
-
-    def node(self, node: Node) -> Any:
-        """The hook every node goes through (override to short-circuit, e.g. constants)."""
-        return getattr(self, "visit_" + type(node).__name__)(node)
-
-    def _expand(self, gen: Generator) -> Generator:
-        value = None
-        while True:
-            try:
-                child = gen.send(value)
-            except StopIteration as stop:
-                return stop.value
-            r = self.node(child)
-            value = (yield self._expand(r)) if isinstance(r, types.GeneratorType) else r
 
 
 # ==== lexer ==================================================================================

@@ -16,7 +16,8 @@ from verify.model.netlist import CONST0, CONST1
 from verify.spec.resolve import signed_width
 from verify.spec.syntax import (MAX_PRODUCT_GATES, MAX_REFERENCE_GATES, MAX_SHIFT_GATES, Binary,
                                 Cast, Concat, Index, Name, Node, Number, Repeat, Slice, Ternary,
-                                Unary, Visitor, location)
+                                Unary, location)
+from verify.spec.walk import Visitor
 
 Word = list[str]
 _CONSTS = (CONST0, CONST1)

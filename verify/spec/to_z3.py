@@ -19,7 +19,8 @@ from typing import Any, Mapping, Sequence
 
 from verify.spec.resolve import signed_width
 from verify.spec.syntax import (Binary, Cast, Concat, Index, Name, Node, Number, Repeat, Slice,
-                                Ternary, Unary, Visitor)
+                                Ternary, Unary)
+from verify.spec.walk import Visitor
 
 _COMPARE = {"<": operator.lt, "<=": operator.le, ">": operator.gt, ">=": operator.ge,
             "==": operator.eq, "!=": operator.ne}
