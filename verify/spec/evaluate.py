@@ -1,15 +1,16 @@
 """Translation 1: Python integers, the ground truth.
 
-Every node kind has one method giving its operands and a function of their values on unbounded
-integers. :class:`Program` turns an expression into straight-line steps over numbered slots
-(no closure calls nested as deep as the expression), and :func:`fold` applies one node's function
-to constant operands (the resolver's constant folding).
+Each expression becomes one compiled Python function of the input values: straight-line code,
+one statement per node (no nesting as deep as the expression, so nothing recurses when it runs),
+written by a visitor with one method per node kind. Every value is an unbounded Python integer;
+widths only enter where Verilog semantics need them (masks for reductions, concatenation,
+part-selects and casts).
 """
 
 from __future__ import annotations
 
-import operator
-from typing import Callable, Mapping, Sequence
+import dataclasses
+from typing import Any, Callable, Mapping
 
 from verify.spec.syntax import (Binary, Cast, Concat, Index, Name, Node, Number, Repeat, Slice,
                                 Ternary, Unary)
@@ -17,135 +18,129 @@ from verify.spec.walk import Visitor
 
 Env = Mapping[str, int]
 
-_INT_OPS: dict[str, Callable[[int, int], int]] = {
-    "+": operator.add, "-": operator.sub, "*": operator.mul,
-    "&": operator.and_, "|": operator.or_, "^": operator.xor,
-    "~^": lambda x, y: ~(x ^ y),
-    "<<": operator.lshift, "<<<": operator.lshift, ">>": operator.rshift, ">>>": operator.rshift,
-    "<": lambda x, y: int(x < y), "<=": lambda x, y: int(x <= y),
-    ">": lambda x, y: int(x > y), ">=": lambda x, y: int(x >= y),
-    "==": lambda x, y: int(x == y), "!=": lambda x, y: int(x != y),
-    "&&": lambda x, y: int(bool(x) and bool(y)), "||": lambda x, y: int(bool(x) or bool(y)),
-}
+_INFIX = {"+": "+", "-": "-", "*": "*", "&": "&", "|": "|", "^": "^",
+          "<<": "<<", "<<<": "<<", ">>": ">>", ">>>": ">>"}
+_COMPARE = {"<", "<=", ">", ">=", "==", "!="}
 
 
-class Meaning:
-    """One method per node kind: (operand nodes, function of their integer values)."""
+class Program(Visitor):
+    """An expression as a compiled function ``program(env) -> int``."""
 
-    def of(self, n: Node) -> tuple[Sequence[Node], Callable[..., int]]:
-        return getattr(self, "meaning_" + type(n).__name__)(n)
+    def __init__(self, root: Node):
+        self.lines: list[str] = []
+        self.consts: dict[str, Any] = {}
+        out = self.visit(root)
+        body = "\n".join(f"    {line}" for line in self.lines)
+        source = f"def program(e):\n{body}\n    return {out}\n" if body else \
+            f"def program(e):\n    return {out}\n"
+        scope: dict[str, Any] = dict(self.consts)
+        exec(compile(source, "<spec>", "exec"), scope)  # noqa: S102 - our own generated code
+        self.run: Callable[[Env], int] = scope["program"]
 
-    def meaning_Unary(self, n: Unary):
-        op, m = n.op, (1 << n.arg.width) - 1
-        fn = {
-            "+": lambda x: x,
-            "-": operator.neg,
-            "~": operator.invert,
-            "!": lambda x: int(x == 0),
-            "&": lambda x: int(x & m == m),
-            "~&": lambda x: int(x & m != m),
-            "|": lambda x: int(x & m != 0),
-            "~|": lambda x: int(x & m == 0),
-            "^": lambda x: (x & m).bit_count() & 1,
-            "~^": lambda x: 1 - ((x & m).bit_count() & 1),
+    def __call__(self, env: Env) -> int:
+        return self.run(env)
+
+    # ---- code helpers
+    def const(self, value: int) -> str:
+        name = f"k{len(self.consts)}"
+        self.consts[name] = value
+        return name
+
+    def assign(self, expr: str) -> str:
+        var = f"v{len(self.lines)}"
+        self.lines.append(f"{var} = {expr}")
+        return var
+
+    def node(self, n: Node):
+        if n.const:
+            return self.const(n.lo)
+        if isinstance(n, Name):
+            return self.assign(f"e[{n.name!r}]")
+        return self._statement(n)
+
+    def _statement(self, n: Node):
+        expr = yield from getattr(self, "visit_" + type(n).__name__)(n)
+        return self.assign(expr)
+
+    # ---- node kinds: each returns the Python expression of its value
+    def visit_Number(self, n: Number):  # pragma: no cover - constants return early
+        return self.const(n.value)
+        yield
+
+    def visit_Unary(self, n: Unary):
+        x = yield n.arg
+        op, m = n.op, self.const((1 << n.arg.width) - 1)
+        return {
+            "+": x, "-": f"-{x}", "~": f"~{x}", "!": f"int({x} == 0)",
+            "&": f"int({x} & {m} == {m})", "~&": f"int({x} & {m} != {m})",
+            "|": f"int({x} & {m} != 0)", "~|": f"int({x} & {m} == 0)",
+            "^": f"({x} & {m}).bit_count() & 1", "~^": f"1 - (({x} & {m}).bit_count() & 1)",
         }[op]
-        return (n.arg,), fn
 
-    def meaning_Binary(self, n: Binary):
-        return (n.left, n.right), _INT_OPS[n.op]
+    def visit_Binary(self, n: Binary):
+        x = yield n.left
+        y = yield n.right
+        op = n.op
+        if op in _INFIX:
+            return f"{x} {_INFIX[op]} {y}"
+        if op in _COMPARE:
+            return f"int({x} {op} {y})"
+        if op == "~^":
+            return f"~({x} ^ {y})"
+        if op == "&&":
+            return f"1 if {x} and {y} else 0"
+        if op == "||":
+            return f"1 if {x} or {y} else 0"
+        raise AssertionError(op)  # pragma: no cover
 
-    def meaning_Ternary(self, n: Ternary):
-        return (n.cond, n.then, n.other), lambda c, t, o: t if c else o
+    def visit_Ternary(self, n: Ternary):
+        c = yield n.cond
+        t = yield n.then
+        o = yield n.other
+        return f"{t} if {c} else {o}"
 
-    def meaning_Concat(self, n: Concat):
-        return n.parts, _concat([p.width for p in n.parts])
+    def glue(self, parts):
+        """The parts side by side, each at its own width (one statement per part)."""
+        acc = None
+        for p in parts:
+            x = yield p
+            piece = f"({x} & {self.const((1 << p.width) - 1)})"
+            acc = self.assign(piece if acc is None else f"({acc} << {p.width}) | {piece}")
+        return acc
 
-    def meaning_Repeat(self, n: Repeat):
-        glue = _concat([p.width for p in n.parts])
+    def visit_Concat(self, n: Concat):
+        return (yield from self.glue(n.parts))
+
+    def visit_Repeat(self, n: Repeat):
+        one = yield from self.glue(n.parts)
         w = sum(p.width for p in n.parts)
         spread = ((1 << (w * n.times)) - 1) // ((1 << w) - 1)  # v * spread repeats v n.times
-        return n.parts, lambda *xs: glue(*xs) * spread
+        return f"{one} * {self.const(spread)}"
 
-    def meaning_Index(self, n: Index):
+    def visit_Index(self, n: Index):
+        x = yield n.base
         if n.at is not None:
-            at = n.at
-            return (n.base,), lambda x: (x >> at) & 1
-        return (n.base, n.index), lambda x, i: (x >> i) & 1
+            return f"({x} >> {n.at}) & 1"
+        i = yield n.index
+        return f"({x} >> {i}) & 1"
 
-    def meaning_Slice(self, n: Slice):
-        lsb, m = n.lsb, (1 << (n.msb - n.lsb + 1)) - 1
-        return (n.base,), lambda x: (x >> lsb) & m
+    def visit_Slice(self, n: Slice):
+        x = yield n.base
+        return f"({x} >> {n.lsb}) & {self.const((1 << (n.msb - n.lsb + 1)) - 1)}"
 
-    def meaning_Cast(self, n: Cast):
+    def visit_Cast(self, n: Cast):
+        x = yield n.arg
         w = n.arg.width
-        m = (1 << w) - 1
+        low = self.assign(f"{x} & {self.const((1 << w) - 1)}")
         if n.fn == "unsigned":
-            return (n.arg,), lambda x: x & m
-        half, full = 1 << (w - 1), 1 << w
-
-        def signed(x: int) -> int:
-            v = x & m
-            return v - full if v >= half else v
-        return (n.arg,), signed
-
-
-def _concat(widths: Sequence[int]) -> Callable[..., int]:
-    masks = [(w, (1 << w) - 1) for w in widths]
-
-    def glue(*xs: int) -> int:
-        acc = 0
-        for (w, m), x in zip(masks, xs):
-            acc = (acc << w) | (x & m)
-        return acc
-    return glue
-
-
-_MEANING = Meaning()
+            return low
+        return f"{low} - {self.const(1 << w)} if {low} >> {w - 1} else {low}"
 
 
 def fold(n: Node) -> int:
     """The value of a node whose operands are resolved constants (lo == hi == value)."""
     if isinstance(n, Number):
         return n.value
-    operands, fn = _MEANING.of(n)
-    return fn(*(x.lo for x in operands))
-
-
-class Program(Visitor):
-    """An expression as straight-line steps: ``program(env) -> int``."""
-
-    def __init__(self, root: Node):
-        self.init: list[int] = []  # slot values before the run: constants (and 0 elsewhere)
-        self.names: list[tuple[int, str]] = []  # (slot, port) loaded from env first
-        self.steps: list[tuple[int, Callable[..., int], tuple[int, ...]]] = []
-        self.out = self.visit(root)
-
-    def slot(self, value: int = 0) -> int:
-        self.init.append(value)
-        return len(self.init) - 1
-
-    def node(self, n: Node):
-        if n.const:
-            return self.slot(n.lo)
-        if isinstance(n, Name):
-            s = self.slot()
-            self.names.append((s, n.name))
-            return s
-        return self.visit_operation(n)
-
-    def visit_operation(self, n: Node):
-        operands, fn = _MEANING.of(n)
-        args = []
-        for x in operands:
-            args.append((yield x))
-        s = self.slot()
-        self.steps.append((s, fn, tuple(args)))
-        return s
-
-    def __call__(self, env: Env) -> int:
-        v = self.init[:]
-        for s, name in self.names:
-            v[s] = env[name]
-        for s, fn, args in self.steps:
-            v[s] = fn(*[v[a] for a in args])
-        return v[self.out]
+    if isinstance(n, Ternary):  # only the branch taken need be constant
+        return (n.then if n.cond.lo else n.other).lo
+    return Program(dataclasses.replace(n, const=False))({})
