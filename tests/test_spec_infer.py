@@ -133,6 +133,8 @@ def test_a_refusal_summarises_bit_blasted_groups_and_guesses_a_spec_line():
     ({"a": 8, "b": 8, "cin": 1, "en": 1}, {"sum": 8, "cout": 1}, "{cout, sum} = a + b + cin"),
     ({"i_a": 8, "i_b": 8, "i_sel": 1}, {"o_sum": 8, "o_cout": 1}, "{o_cout, o_sum} = i_a + i_b"),
     ({"a": 8, "b": 8, "c": 8}, {"sum": 8, "cout": 1}, "{cout, sum} = a + b"),
+    ({"a": 8, "b": 8, "sub": 1}, {"res": 8, "cout": 1, "ovf": 1},
+     "{cout, res} = a + b; ovf = ($signed(a) + $signed(b)) != $signed(res)"),
 ])
 def test_refusals_show_a_spec_line_to_write(ins, outs, guess):
     msg = refusal(ins, outs)

@@ -164,7 +164,13 @@ def _guess(ins: list[Item], outs: list[Item]) -> str:
         return "{cout, sum} = a + b + cin"
     rhs = " + ".join(i.short() for i in ops) + (f" + {cin.short()}" if cin else "")
     lhs = "{" + f"{cout.short(True)}, {summ[0].short(True)}" + "}" if cout else summ[0].short()
-    return f"{lhs} = {rhs}"
+    line = f"{lhs} = {rhs}"
+    ovf = next((i for i in outs if i.width == 1 and i is not cout and _is(i.name, _OVERFLOW)),
+               None)
+    if ovf is not None and ops[0].width == ops[1].width == summ[0].width:
+        signed = " + ".join(f"$signed({i.short()})" for i in ops) + (f" + {cin.short()}" if cin else "")
+        line += f"; {ovf.short()} = ({signed}) != $signed({summ[0].short()})"
+    return line
 
 
 def infer(design: Netlist) -> Spec:
