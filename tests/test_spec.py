@@ -1,4 +1,4 @@
-"""Tests for verify/spec.py: parsing, the three translations (ints, gates, z3) and inference.
+"""Tests for verify/spec/: parsing, the three translations (ints, gates, z3) and inference.
 
 Outside references used here, named beside each check:
 * Python's own integer arithmetic and operator precedence (where it coincides with Verilog);
@@ -207,7 +207,7 @@ def _slang_parenthesized(node) -> str:
 @given(verilog_expr())
 def test_parse_tree_matches_an_independent_verilog_parser(text):
     from pyslang import syntax
-    from verify.spec import _Parser
+    from verify.spec.syntax import Parser as _Parser
     # Source: pyslang (slang), a standards-following SystemVerilog parser, parsing the same text.
     tree = syntax.SyntaxTree.fromText(f"module m; assign y = {text}; endmodule")
     assert not list(tree.diagnostics), text
@@ -330,9 +330,9 @@ def test_concatenation_takes_self_determined_widths(text, value):
     ("{cout, sum} = a /* never closed", "comment '/*' is never closed"),
     ("{cout, sum} = a + \u00e9", "column 19: unexpected character '\u00e9'"),
     ("{cout, sum} = a + \u00b2", "unexpected character"),
-    ("{cout, sum} = 99999'd1", "a size over 4096 bits"),
-    ("{cout, sum} = " + "9" * 2000, "is longer than 4096 bits"),
-    ("{cout, sum} = 8'h" + "f" * 2000, "is longer than 4096 bits"),
+    (f"{{cout, sum}} = {MAX_BITS + 1}'d1", f"a size over {MAX_BITS} bits"),
+    ("{cout, sum} = " + "9" * 5000, "is longer than 4,000 decimal digits (write it in hex)"),
+    ("{cout, sum} = 8'h" + "f" * (MAX_BITS // 4 + 2), f"is longer than {MAX_BITS} bits"),
 ])
 def test_error_messages_say_what_and_where(text, fragment):
     assert fragment in spec_error(text)
@@ -351,9 +351,9 @@ def test_str_of_a_spec_error_is_one_line_with_its_place():
 
 
 def test_results_beyond_the_bit_limit_are_refused():
-    d = design({"a": 4, "s": 16}, {"y": 8})
-    assert f"more than {MAX_BITS} bits" in spec_error("y = a << s", d)
-    assert "limit is 4096" in spec_error("y = {5000{a[0]}}", d)
+    d = design({"a": 4, "s": 18}, {"y": 8})
+    assert f"more than {MAX_BITS:,} bits" in spec_error("y = a << s", d)
+    assert f"limit is {MAX_BITS:,}" in spec_error(f"y = {{{MAX_BITS + 1}{{a[0]}}}}", d)
     # shifting right by a wide amount is fine: it only repeats the sign
     spec = parse("y = $signed(a) >> s", d)
     assert spec.evaluate({"a": 8, "s": 40000})["y"] == 255  # -8 >> big = -1 (Python floor)
@@ -717,7 +717,7 @@ def test_random_specs_agree_across_ints_gates_and_z3(expr, seed):
         spec = parse(text, _FUZZ)
     except SpecError as e:  # refusals this generator can provoke, by design
         assert any(why in e.message for why in ("may be negative", "selects bits outside",
-                                                  "bits; the limit is", "more than 4096")), e.message
+                                                  "bits; the limit is", f"more than {MAX_BITS:,}")), e.message
         return
     ref = spec.reference()
     rng = random.Random(seed)

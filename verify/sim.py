@@ -110,8 +110,10 @@ class Miter:
         rl, rvar = emit(reference, "r", ivars)
         diffs = [f"({dvar[b]} ^ {rvar[b]})" for b in design.output_bits]
         self.gate_count = len(design.gates) + len(reference.gates)
-        self._run, self.source = _compile("miter", list(ivars.values()), dl + rl,
-                                          " | ".join(diffs) if diffs else "0")
+        # OR the differences 64 at a time: one long a | b | ... chain overflows the compiler
+        ors = ["    m = 0"] + [f"    m |= {' | '.join(diffs[k:k + 64])}"
+                               for k in range(0, len(diffs), 64)]
+        self._run, self.source = _compile("miter", list(ivars.values()), dl + rl + ors, "m")
 
     def run(self, words: Sequence[Word], mask: Word) -> Word:
         return self._run(words, mask)
