@@ -12,8 +12,6 @@ unchanged, so a width sweep (the same files with ``params`` W=8, 16, 32...) only
 from __future__ import annotations
 
 import os
-import sys
-import threading
 from pathlib import Path
 from typing import Mapping, Sequence
 
@@ -243,41 +241,17 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
     inst = tops[0]
     _check_params(inst, params, locator)
     translator = Translator(locator, origin=", ".join(str(p) for p in paths))
-    return _deep(lambda: translator.run(inst), str(paths[0]))
+    return _translate(translator, inst, str(paths[0]))
 
 
-def _deep(fn, where: str):
-    """Run the (recursive) translation on a thread with a large stack and recursion limit, so
-    that a generated expression thousands of operators deep translates instead of crashing."""
-    out: dict[str, object] = {}
-
-    def target():
-        try:
-            out["value"] = fn()
-        except RecursionError:
-            out["error"] = InputError("an expression or statement is nested too deeply to "
-                                      "translate", where)
-        except BaseException as e:  # handed to the caller's thread unchanged
-            out["error"] = e
-
-    old_limit = sys.getrecursionlimit()
-    old_stack = threading.stack_size()
+def _translate(translator, inst, where: str):
+    """Run the translation. Nesting is bounded (common.MAX_NEST) well inside the interpreter's
+    own recursion limit, which is never changed; a RecursionError that still escapes (a design
+    nested in a way the bound does not count) becomes an input error, not a crash."""
     try:
-        threading.stack_size(_STACK_BYTES)
-        sys.setrecursionlimit(max(old_limit, _RECURSION_LIMIT))
-        t = threading.Thread(target=target, name="verilog-translate")
-        t.start()
-        t.join()
-    finally:
-        threading.stack_size(old_stack)
-        sys.setrecursionlimit(old_limit)
-    if "error" in out:
-        raise out["error"]  # type: ignore[misc]
-    return out["value"]
-
-
-_STACK_BYTES = 512 * 1024 * 1024
-_RECURSION_LIMIT = 200_000
+        return translator.run(inst)
+    except RecursionError:
+        raise InputError("the design is nested too deeply to translate", where) from None
 
 
 def _definitions(comp):
