@@ -59,7 +59,9 @@ class Drivers:
                 break
         return net
 
-    def drive(self, p: str, v: str, where: str | None) -> None:
+    def drive(self, p: str, v: str, where: str | None, block_key=None) -> None:
+        """Drive placeholder ``p`` with ``v``; ``block_key``: the signal, when the driver is the end
+        of a procedural block."""
         if p not in self.placeholders:
             if p in _CONSTS:
                 raise self.fail("cannot assign to a supply net", where=where)
@@ -70,10 +72,14 @@ class Drivers:
             raise self.fail(f"combinational loop: '{p}' is assigned a value that depends only on "
                             f"itself", where=where)
         if p in self.alias:
-            if p not in self.conflicts:
-                self.conflicts[p] = (f"net '{p}' has more than one driver: "
-                                     f"{self.alias_where.get(p) or '?'} and {where or '?'}")
+            # a second driver: every one is recorded and the design refused at the end, in any
+            # source order and whether or not the net reaches an output
+            first = self.block_drives.get(p)
+            self.conflicts.setdefault(p, [(self.alias_where.get(p), first)]).append(
+                (where, block_key))
             return
+        if block_key is not None:
+            self.block_drives[p] = block_key
         self.alias[p] = v
         self.alias_where[p] = where
 
@@ -87,7 +93,30 @@ class Drivers:
 
 
     # ==== finishing =====================================================================
+    def multiple_drivers(self) -> InputError | None:
+        """The error for nets with more than one driver, naming the first such net (in source
+        order) and where each of its drivers is; None when every net has at most one."""
+        conflicts = {}
+        for net, drivers in self.conflicts.items():
+            keys = {k for _, k in drivers}
+            if None not in keys and not keys & self.outside_reads:
+                # only procedural blocks write it, each before reading it, and nothing reads its
+                # module-level value (a loop index shared by several blocks): no ambiguity
+                continue
+            conflicts[net] = [w for w, _ in drivers]
+        if not conflicts:
+            return None
+        net, wheres = next(iter(conflicts.items()))
+        listed = ", ".join(w or "?" for w in wheres)
+        more = len(conflicts) - 1
+        tail = f" (and {more} more net{'s' if more > 1 else ''} with several drivers)" if more else ""
+        return self.fail(f"net '{net}' has more than one driver ({len(wheres)}: {listed}); a "
+                         f"net must have exactly one{tail}", where=wheres[0] or self.origin)
+
     def finish(self, name: str, inputs: list[Port], out_ports: list[tuple[str, list[str]]]):
+        err = self.multiple_drivers()
+        if err is not None:
+            raise err
         res = self.res
         gates = self.b.gates
         driver = {g.output: g for g in gates}
@@ -101,8 +130,6 @@ class Drivers:
                     if n in seen:
                         continue
                     seen.add(n)
-                    if n in self.conflicts:
-                        raise self.fail(self.conflicts[n], where=self.alias_where.get(n))
                     if n in self.alias:
                         stack.append(self.alias[n])
                         continue

@@ -144,6 +144,7 @@ class Expressions:
                     f.reads[key] = ({o}, self.where(e))
                 else:
                     rd[0].add(o)
+            self.outside_reads.add(key)
             out.append(self.res(bits[o]))
         return out
 

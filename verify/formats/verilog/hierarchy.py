@@ -9,10 +9,16 @@ from verify.model.netlist import CONST0, CONST1
 from verify.formats.verilog.common import EK, SK, _kind_words
 from verify.formats.verilog.common import _GATE_PRIMS, _TRI_PRIMS, _IGNORED_MEMBERS
 from verify.model.netlist import Port, bit_name
+from verify.formats.notes import note
+
+
+MAX_UDP_INPUTS = 12
 
 
 class Hierarchy:
     """Walks scopes and instances; owns the map from Verilog signals to placeholder nets."""
+
+    _specify_noted = False
 
     def width(self, t, node=None) -> int:
         ct = t.canonicalType
@@ -125,6 +131,7 @@ class Hierarchy:
             if k == SK.ContinuousAssign:
                 self.continuous(m)
             elif k == SK.Net:
+                self.delay_note(m)
                 self.sig(m)
                 if m.initializer is not None:
                     self.set_source(m)
@@ -153,6 +160,11 @@ class Hierarchy:
                 for e in m.entries:
                     if not e.isUninstantiated:
                         self.scope(e)
+            elif k == SK.SpecifyBlock:
+                if not self._specify_noted:
+                    self._specify_noted = True
+                    note("specify blocks (path delays, timing checks) are ignored: only the logic "
+                         "is checked", self.loc.line(m.location))
             elif k in _IGNORED_MEMBERS:
                 continue
             elif k == SK.UninstantiatedDef:
@@ -217,8 +229,11 @@ class Hierarchy:
     def primitive(self, prim) -> None:
         ptype = prim.primitiveType
         name = ptype.name
+        self.delay_note(prim)
+        if ptype.primitiveKind == ast.PrimitiveSymbol.PrimitiveKind.UserDefined:
+            return self.udp(prim, ptype)
         if name not in _GATE_PRIMS:
-            what = "tristate or switch primitive" if name in _TRI_PRIMS else "user-defined primitive"
+            what = "tristate or switch primitive" if name in _TRI_PRIMS else "primitive"
             raise self.unsupported(f"{what} '{name}'", prim)
         conns = list(prim.portConnections)
         self.set_source(prim)
@@ -247,7 +262,59 @@ class Hierarchy:
             else:
                 self.assign_lvalue(e, [v] * max(1, self.width(e.type, e)), w)
 
+    def udp(self, prim, ptype) -> None:
+        """A combinational user-defined primitive: its table read in two-valued logic (a row
+        matches an input 0 with 0, 1 with 1, ? and b with either; an x in a row matches neither)
+        and built as a multiplexer tree over the inputs. Input values no row covers give x."""
+        name = ptype.name
+        if ptype.isSequential:
+            raise self.fail(f"user-defined primitive '{name}' is sequential (it has a state "
+                            f"column): only combinational designs can be checked", prim)
+        conns = list(prim.portConnections)
+        n = len(conns) - 1
+        if n > MAX_UDP_INPUTS:
+            raise self.unsupported(f"user-defined primitive '{name}' with {n} inputs (the limit "
+                                   f"is {MAX_UDP_INPUTS})", prim)
+        rows = [(e.inputs, e.output) for e in ptype.table]
+        table: list[str] = []
+        for i in range(1 << n):
+            out = "x"
+            for ins, o in rows:
+                if len(ins) == n and all(c in "?b" or c == ("1" if i >> j & 1 else "0")
+                                         for j, c in enumerate(ins)):
+                    out = o if o in "01" else "x"
+                    break
+            table.append(out)
+        self.set_source(prim)
+        w = self.where(prim)
+        x = None
+        if "x" in table:
+            x = self.xbit(w, f"an x from user-defined primitive '{name}' (no table row matches "
+                             f"some input values)")
+        vals = [CONST1 if t == "1" else CONST0 if t == "0" else x for t in table]
+        ins = []
+        for e in conns[1:]:
+            bits = self.ev(e)
+            ins.append(bits[0] if bits else self.xbit(self.where(e)))
+        b = self.b
+        for sel in ins:  # input j is bit j of the table index: fold the table one input at a time
+            vals = [b.mux(sel, vals[k], vals[k + 1]) for k in range(0, len(vals), 2)]
+        v = vals[0]
+        out = conns[0]
+        lhs = out.left if out.kind == EK.Assignment else out
+        self.assign_lvalue(lhs, [v] * max(1, self.width(lhs.type, out)), w)
+
+    def delay_note(self, node) -> None:
+        """Delays (#d on gates, nets and assignments) do not change the logic: one note."""
+        if self._delay_noted or getattr(node, "delay", None) is None:
+            return
+        self._delay_noted = True
+        note("delays (#...) are ignored: only the logic is checked", self.loc.line(node.location))
+
+    _delay_noted = False
+
     def continuous(self, ca) -> None:
+        self.delay_note(ca)
         a = ca.assignment
         self.set_source(a)
         if a.kind != EK.Assignment:  # pragma: no cover - slang always makes an assignment

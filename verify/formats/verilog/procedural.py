@@ -114,7 +114,7 @@ class Procedural:
                     raise self.fail(f"'{bits[o]}' is not assigned on every path through the "
                                     f"block{at}, which implies a latch (sequential logic); assign "
                                     f"it a value first or add the missing else/default", blk)
-                self.drive(bits[o], v, self.where(blk))
+                self.drive(bits[o], v, self.where(blk), block_key=key)
         if f.event_keys is not None:
             for key, (offs, _) in f.reads.items():
                 missing = offs - f.event_keys.get(key, set()) - f.written.get(key, set())

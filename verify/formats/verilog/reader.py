@@ -16,6 +16,8 @@ from pathlib import Path
 from typing import Mapping, Sequence
 
 from verify.errors import InputError
+from verify.formats.notes import note
+from verify.formats.verilog.guard import XL_DIRECTIVES, check_sources, duplicate_definitions
 from verify.model.netlist import Netlist
 
 _TREE_CACHE: dict[tuple, list] = {}
@@ -82,6 +84,7 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
     pp = parsing.PreprocessorOptions()
     pp.predefines = _define_strings(defines)
     pp.additionalIncludePaths = [str(Path(d)) for d in include_dirs]
+    pp.ignoreDirectives = set(XL_DIRECTIVES)
     bag = pyslang.Bag([pp])
     trees = []
     for p in paths:
@@ -164,14 +167,36 @@ class Locator:
         return w.rsplit(":", 1)[0] if w else None
 
 
+# slang errors about delays only: this tool ignores time, so a `timescale in one file and not in
+# another does not matter
+_TIME_ONLY = ("MissingTimeScale", "MismatchedTimeScales", "TimeScaleFirstInScope")
+# slang warnings that can change what a design means: shown as notes, once each
+_MEANINGFUL = {"WidthTruncate": None, "PortWidthTruncate": None, "PortWidthExpand": None,
+               "ImplicitNet": None, "UnconnectedInputPort": None, "UnconnectedInOutPort": None,
+               "UnconnectedOutputPort": None, "UnconnectedUnnamedPort": None}
+
+
 def _diagnostics(pyslang, comp, sm, locator: Locator) -> None:
-    """Raise the first error slang reports (with a count of the rest); warnings pass."""
+    """Raise the first error slang reports (with a count of the rest); meaningful warnings
+    become notes; errors about time scales only become one note."""
     engine = pyslang.DiagnosticEngine(sm)
+    time_only = {getattr(pyslang.Diags, n) for n in _TIME_ONLY if hasattr(pyslang.Diags, n)}
+    meaningful = {getattr(pyslang.Diags, n) for n in _MEANINGFUL if hasattr(pyslang.Diags, n)}
     errors = []
+    timescale_at = None
     for d in comp.getAllDiagnostics():
+        if d.code in time_only:
+            timescale_at = timescale_at or locator.where(d.location) or "?"
+            continue
         sev = engine.getSeverity(d.code, d.location)
         if sev in (pyslang.DiagnosticSeverity.Error, pyslang.DiagnosticSeverity.Fatal) or d.isError():
             errors.append(d)
+        elif d.code in meaningful:
+            note(f"warning from the Verilog front end: {engine.formatMessage(d)}",
+                 locator.line(d.location))
+    if timescale_at and not errors:
+        note("`timescale is set in some files and not in others; delays are ignored (only the "
+             "logic is checked), so this does not matter here", timescale_at)
     if not errors:
         return
     d = errors[0]
@@ -209,8 +234,14 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
     from verify.formats.verilog.translate import Translator
     paths = [Path(p) for p in paths]
     params = dict(params or {})
+    facts = check_sources(paths, list(include_dirs or []))
     sm, trees = _parse(pyslang, paths, list(include_dirs or []), dict(defines or {}))
     locator = Locator(sm, paths)
+    duplicate_definitions(trees, locator)
+    if facts.directives:
+        listed = ", ".join(f"`{d}" for d in facts.directives)
+        note(f"Verilog-XL directives that do not change the logic are ignored: {listed}",
+             next(iter(facts.directives.values())))
     comp = _elaborate(pyslang, trees, top, params)
     root = comp.getRoot()
     first = str(paths[0])

@@ -37,7 +37,9 @@ class Translator(Hierarchy, Expressions, Constants, Procedural, Unroll, Drivers)
         self.placeholders: dict[str, None] = {}  # ordered set
         self.alias: dict[str, str] = {}
         self.alias_where: dict[str, str | None] = {}
-        self.conflicts: dict[str, str] = {}
+        self.conflicts: dict[str, list[str | None]] = {}  # net -> where each driver is
+        self.block_drives: dict[str, tuple] = {}  # net -> signal key, driven by a block
+        self.outside_reads: set[tuple] = set()  # signals whose module-level value is read
         self.xnets: dict[str, str | None] = {}
         self.path = ""  # instance path prefix of the scope being translated, "" or "u1.u2."
         self.inst_hp = ""  # slang hierarchical path of that instance
