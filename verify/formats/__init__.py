@@ -20,11 +20,9 @@ def load(paths: str | Path | Sequence[str | Path], *, top: str | None = None,
     paths = [Path(p) for p in paths]
     if not paths:
         raise InputError("no design file given")
+    from verify.formats.verilog.guard import regular_file
     for p in paths:
-        if not p.exists():
-            raise InputError("no such file", str(p))
-        if p.is_dir():
-            raise InputError("is a folder, not a design file", str(p))
+        regular_file(p)  # before anything opens it: no folders, devices or FIFOs
     if all(p.suffix == ".json" for p in paths):
         if len(paths) > 1:
             raise InputError("give one JSON netlist at a time", str(paths[1]))

@@ -16,6 +16,11 @@ from verify.model.netlist import Gate, Port
 from verify.formats.verilog.common import _CONSTS
 
 
+MAX_GATES = 500_000  # gates made while translating (before unused ones are dropped)
+MAX_SIGNAL_BITS = 1 << 20  # bits in one signal
+MAX_TOTAL_BITS = 1 << 23  # bits in all signals together
+
+
 class _Builder(GateBuilder):
     """GateBuilder that keeps Verilog's x semantics while folding.
 
@@ -30,6 +35,9 @@ class _Builder(GateBuilder):
         self.tainted: set[str] = set()
 
     def gate(self, op: str, *inputs: str, out: str | None = None) -> str:
+        if len(self.gates) >= MAX_GATES:
+            raise InputError(f"the design translates into more than {MAX_GATES:,} gates; refused "
+                             f"as too large", self.source)
         tainted = self.tainted
         hit = any(i in tainted for i in inputs)
         if hit and op in ("xor", "xnor") and len(set(inputs)) < len(inputs):

@@ -457,6 +457,8 @@ class Expressions:
                 return self.fit(self.ev(args[0]), self.width(e.type, e), False)
             raise self.unsupported(f"system function '{name}' on values that are not constant", e)
         sub = e.subroutine
+        if sub.flags & ast.MethodFlags.DPIImport:
+            raise self.unsupported(f"a call of the DPI import '{sub.name}' (C code)", e)
         if sub.subroutineKind != ast.SubroutineKind.Function:
             raise self.unsupported(f"task call '{sub.name}'", e)
         return self.inline_function(sub, list(e.arguments), e)

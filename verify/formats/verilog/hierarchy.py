@@ -8,7 +8,8 @@ from pyslang import ast
 from verify.model.netlist import CONST0, CONST1
 from verify.formats.verilog.common import EK, SK, _kind_words
 from verify.formats.verilog.common import _GATE_PRIMS, _TRI_PRIMS, _IGNORED_MEMBERS
-from verify.model.netlist import Port, bit_name
+from verify.model.netlist import MAX_PORT_WIDTH, Port, bit_name
+from verify.formats.verilog.drivers import MAX_SIGNAL_BITS, MAX_TOTAL_BITS
 from verify.formats.notes import note
 
 
@@ -73,6 +74,12 @@ class Hierarchy:
                 raise self.fail(f"net '{sym.name}' of kind {sym.netType.name}: only wire, uwire "
                                 f"and tri nets are supported (no wired-AND/OR, pull or "
                                 f"charge-storage nets)", sym)
+        if w > MAX_SIGNAL_BITS:
+            raise self.fail(f"'{sym.name}' is {w:,} bits wide; the limit for one signal is "
+                            f"{MAX_SIGNAL_BITS:,} bits", sym)
+        if len(self.placeholders) + w > MAX_TOTAL_BITS:
+            raise self.fail(f"the design's signals hold more than {MAX_TOTAL_BITS:,} bits in all; "
+                            f"refused as too large", sym)
         where = self.loc.where(sym.location)
         bits = self._bit_names(t, self.name_of(sym))
         for b in bits:
@@ -103,6 +110,9 @@ class Hierarchy:
                 raise self.fail(f"top-level port '{port.name}' has type '{t}': top-level ports must "
                                 f"be bit vectors", port)
             w = self.width(t, port)
+            if w > MAX_PORT_WIDTH:
+                raise self.fail(f"top-level port '{port.name}' is {w:,} bits wide; the widest port "
+                                f"supported is {MAX_PORT_WIDTH:,} bits", port)
             d = port.direction
             if d == ast.ArgumentDirection.In:
                 bits = [bit_name(port.name, i, w) for i in range(w)]

@@ -10,7 +10,7 @@ from pyslang import ast
 
 from verify.model import words
 from verify.model.netlist import CONST0, CONST1
-from verify.formats.verilog.common import BO, EK, SK, STK, UO, _stmt_words
+from verify.formats.verilog.common import _MAX_LOOP, BO, EK, SK, STK, UO, _stmt_words
 from verify.formats.verilog.constants import _literal_chars, _representable
 
 
@@ -169,7 +169,11 @@ class Procedural:
             n = self.const_int(s.count)
             if n is None:
                 raise self.unsupported("a repeat loop whose count is not a constant", s)
+            if n > _MAX_LOOP:
+                raise self.fail(f"a repeat loop that runs {n:,} times (the limit is "
+                                f"{_MAX_LOOP:,})", s)
             for _ in range(max(0, n)):
+                self.count_iteration(s)
                 self.exec(s.body)
         elif k in (STK.WhileLoop, STK.DoWhileLoop):
             self.exec_while(s, first=k == STK.DoWhileLoop)

@@ -5,8 +5,12 @@ from __future__ import annotations
 from pyslang import ast
 
 from verify.model.netlist import CONST0, CONST1
-from verify.formats.verilog.common import EK, _CONSTS, _MAX_LOOP
+from verify.formats.verilog.constants import _to_int
+from verify.formats.verilog.common import BO, EK, UO, _CONSTS, _MAX_LOOP
 from verify.formats.verilog.procedural import _Frame
+
+
+MAX_TOTAL_ITERATIONS = 1 << 17
 
 
 class Unroll:
@@ -27,6 +31,10 @@ class Unroll:
         for init in s.initializers:
             if init.kind == EK.Assignment and init.left.kind == EK.NamedValue:
                 loop_keys.add((self.path, init.left.symbol))
+        trips = self._trip_count(s, loop_keys)
+        if trips is not None and trips > _MAX_LOOP:
+            runs = f"{trips:,}" if trips <= 10 * _MAX_LOOP else f"more than {10 * _MAX_LOOP:,}"
+            raise self.fail(f"a for loop that runs {runs} times (the limit is {_MAX_LOOP:,})", s)
         saved = (f.brk, f.cont)
         f.brk = f.cont = CONST0
         f.loops += 1
@@ -44,6 +52,7 @@ class Unroll:
                 count += 1
                 if count > _MAX_LOOP:
                     raise self.fail(f"a for loop that runs more than {_MAX_LOOP} times", s)
+                self.count_iteration(s)
                 f.cont = CONST0
                 self.exec(s.body)
                 if f.returned:
@@ -65,6 +74,73 @@ class Unroll:
         finally:
             f.loops -= 1
             f.brk, f.cont = saved
+
+    _iterations = 0
+
+    def count_iteration(self, s) -> None:
+        """Loops are unrolled: all of them together may run MAX_TOTAL_ITERATIONS times."""
+        self._iterations += 1
+        if self._iterations > MAX_TOTAL_ITERATIONS:
+            raise self.fail(f"loops in this design run more than {MAX_TOTAL_ITERATIONS:,} "
+                            f"iterations in all (nested or repeated loops); each is unrolled "
+                            f"into gates, so the design is refused as too large", s)
+
+    def _trip_count(self, s, loop_keys) -> int | None:
+        """How many times ``for (i = c0; i OP c1; i = i +/- c2)`` runs, counted with integers
+        before anything is unrolled (up to ten times the limit); None for any other shape."""
+        if len(loop_keys) != 1 or s.stopExpr is None or len(list(s.steps)) != 1:
+            return None
+        key = next(iter(loop_keys))
+        cur = self.frame.env.get(key)
+        if cur is None or not all(v in _CONSTS for v in cur):
+            return None
+        sym = key[1]
+        i = _to_int(cur, sym.type.isSigned)
+        stop = s.stopExpr
+        if stop.kind != EK.BinaryOp or _strip(stop.left).kind != EK.NamedValue or \
+                _strip(stop.left).symbol is not sym:
+            return None
+        bound = self.try_const(stop.right)
+        if bound is None:
+            return None
+        rt = stop.right.type
+        if rt.isSigned and rt.bitWidth and bound >> (rt.bitWidth - 1) & 1:
+            bound -= 1 << rt.bitWidth
+        tests = {BO.LessThan: lambda a: a < bound, BO.LessThanEqual: lambda a: a <= bound,
+                 BO.GreaterThan: lambda a: a > bound, BO.GreaterThanEqual: lambda a: a >= bound,
+                 BO.Inequality: lambda a: a != bound}
+        test = tests.get(stop.op)
+        step = next(iter(s.steps))
+        delta = None
+        if step.kind == EK.UnaryOp and _strip(step.operand).kind == EK.NamedValue and \
+                _strip(step.operand).symbol is sym:
+            delta = 1 if step.op in (UO.Preincrement, UO.Postincrement) else -1
+        elif step.kind == EK.Assignment and step.left.kind == EK.NamedValue and \
+                step.left.symbol is sym:
+            r = _strip(step.right)
+            if r.kind == EK.BinaryOp and r.op in (BO.Add, BO.Subtract):
+                left = _strip(r.left)
+                if left.kind == EK.LValueReference or (left.kind == EK.NamedValue
+                                                       and left.symbol is sym):
+                    d = self.try_const(r.right)
+                    if d is not None:
+                        rw = r.right.type.bitWidth
+                        if r.right.type.isSigned and rw and d >> (rw - 1) & 1:
+                            d -= 1 << rw
+                        delta = d if r.op == BO.Add else -d
+        if test is None or not delta:
+            return None
+        limit = 10 * _MAX_LOOP
+        if stop.op in (BO.LessThan, BO.LessThanEqual) and delta > 0 or \
+                stop.op in (BO.GreaterThan, BO.GreaterThanEqual) and delta < 0:
+            span = bound - i + (1 if stop.op in (BO.LessThanEqual, BO.GreaterThanEqual) else 0) \
+                if delta > 0 else i - bound + (1 if stop.op == BO.GreaterThanEqual else 0)
+            return max(0, -(-span // abs(delta)))  # ceiling division
+        n = 0
+        while test(i) and n <= limit:
+            n += 1
+            i += delta
+        return n
 
     def exec_while(self, s, *, first: bool) -> None:
         """while / do-while whose condition is a constant on every iteration (unrolled)."""
@@ -95,6 +171,7 @@ class Unroll:
             count += 1
             if count > _MAX_LOOP:
                 raise self.fail(f"a loop that runs more than {_MAX_LOOP} times", s)
+            self.count_iteration(s)
             f.cont = CONST0
             self.exec(s.body)
             f.cont = CONST0
@@ -159,3 +236,10 @@ class Unroll:
             f.env[rkey] = self.fit(self.ev(s.expr), w, s.expr.type.isSigned)
         f.returned = True
 
+
+
+def _strip(e):
+    """The expression under any conversions slang inserted."""
+    while e.kind == EK.Conversion:
+        e = e.operand
+    return e
