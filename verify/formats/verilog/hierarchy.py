@@ -20,6 +20,7 @@ class Hierarchy:
     """Walks scopes and instances; owns the map from Verilog signals to placeholder nets."""
 
     _specify_noted = False
+    refused_cells: dict[str, str] = {}  # Liberty cells that cannot be used, and why
 
     def width(self, t, node=None) -> int:
         ct = t.canonicalType
@@ -185,6 +186,9 @@ class Hierarchy:
     def instance(self, inst) -> None:
         if not inst.isModule:
             raise self.unsupported(f"interface instance '{inst.name}'", inst)
+        why = self.refused_cells.get(inst.definition.name)
+        if why is not None:
+            raise self.fail(f"instance '{inst.name}': {why}", inst)
         parent_path, parent_hp = self.path, self.inst_hp
         child_rel = inst.hierarchicalPath
         if parent_hp and child_rel.startswith(parent_hp + "."):

@@ -68,17 +68,18 @@ def option_error(message: str, where: str | None, *, option: str, detail: str) -
 
 
 def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
-           defines: Mapping[str, str | None]):
-    """(source manager, syntax trees), cached while the files and options are unchanged."""
+           defines: Mapping[str, str | None], cells: Sequence[Path] = ()):
+    """(source manager, syntax trees, {cell: why refused}), cached while the files and options
+    are unchanged. ``cells``: Liberty files whose cells become Verilog modules."""
     for d in include_dirs:
         if not Path(d).is_dir():
             raise option_error("include folder does not exist", f"-I {d}", option="-I",
                                detail=f"include folder '{d}' does not exist")
-    key = (_file_key(paths), tuple(str(Path(d).resolve()) for d in include_dirs),
+    key = (_file_key(paths), _file_key(cells), tuple(str(Path(d).resolve()) for d in include_dirs),
            tuple(sorted((k, v) for k, v in defines.items())))
     hit = _TREE_CACHE.get(key)
     if hit is not None and _deps_unchanged(hit[2]):
-        return hit[:2]
+        return hit[0], hit[1], hit[3]
     from pyslang import parsing, syntax
     sm = pyslang.SourceManager()
     pp = parsing.PreprocessorOptions()
@@ -95,8 +96,15 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
     _TREE_CACHE.pop(key, None)
     if len(_TREE_CACHE) >= _TREE_CACHE_MAX:
         _TREE_CACHE.pop(next(iter(_TREE_CACHE)))
-    _TREE_CACHE[key] = [sm, trees, _dependencies(sm)]
-    return sm, trees
+    refused: dict[str, str] = {}
+    for lib_path in cells:
+        from verify.formats.liberty import read_liberty, verilog_models
+        lib = read_liberty(lib_path)
+        text, why = verilog_models(lib)
+        refused.update(why)
+        trees.append(syntax.SyntaxTree.fromText(text, sm, f"{lib_path} (cell models)", "", bag))
+    _TREE_CACHE[key] = [sm, trees, _dependencies(sm), refused]
+    return sm, trees, refused
 
 
 def _dependencies(sm) -> list[tuple[str, int, int]]:
@@ -228,15 +236,18 @@ def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int]):
 
 def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | None = None,
          include_dirs: list[str] | None = None,
-         defines: dict[str, str | None] | None = None) -> Netlist:
+         defines: dict[str, str | None] | None = None,
+         cells: list[Path] | None = None) -> Netlist:
     """Elaborate the Verilog files and translate the top module into a validated Netlist."""
     pyslang = _import_pyslang()
     from verify.formats.verilog.translate import Translator
     paths = [Path(p) for p in paths]
     params = dict(params or {})
     facts = check_sources(paths, list(include_dirs or []))
-    sm, trees = _parse(pyslang, paths, list(include_dirs or []), dict(defines or {}))
-    locator = Locator(sm, paths)
+    cells = [Path(c) for c in cells or []]
+    sm, trees, refused_cells = _parse(pyslang, paths, list(include_dirs or []),
+                                      dict(defines or {}), cells)
+    locator = Locator(sm, paths + cells)
     duplicate_definitions(trees, locator)
     if facts.directives:
         listed = ", ".join(f"`{d}" for d in facts.directives)
@@ -264,6 +275,12 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
             raise option_error(f"{why}; name the top with --top {listed}", first, option="--top",
                                detail=f"{why}; name the top module {listed}")
         raise InputError("no module found in the given files", first)
+    if len(tops) > 1 and not top:
+        # cells of a library (from --cells, or Verilog models between `celldefine and
+        # `endcelldefine) that the netlist does not use are not candidates for the top
+        design = [t for t in tops if not t.definition.cellDefine]
+        if len(design) == 1:
+            tops = design
     if len(tops) > 1:
         names = ", ".join(sorted(t.name for t in tops))
         raise option_error(f"several candidate top modules ({names}); choose one with --top NAME",
@@ -272,6 +289,7 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
     inst = tops[0]
     _check_params(inst, params, locator)
     translator = Translator(locator, origin=", ".join(str(p) for p in paths))
+    translator.refused_cells = refused_cells
     return _translate(translator, inst, str(paths[0]))
 
 
