@@ -67,7 +67,7 @@ def parse_params(values: tuple[str, ...]) -> dict[str, list[int]]:
             try:
                 vals.append(int(v.strip(), 0))
             except ValueError:
-                raise InputError(f"--param {name}: '{v}' is not a whole number") from None
+                vals.append(v.strip())  # an enum member or a string: the reader decides
         if name.strip() in out:
             raise InputError(f"--param {name.strip()} is given twice; for a sweep write "
                              f"{name.strip()}=V1,V2,...")

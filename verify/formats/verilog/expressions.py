@@ -64,7 +64,16 @@ class Expressions:
         order of evaluation is the recursive one: left operand before right)."""
         spine = []
         n = e
+        value = None
         while True:
+            if n.kind == EK.BinaryOp and not (n.left.type.isIntegral and n.right.type.isIntegral):
+                # an operator on strings or reals: only its constant value can be used
+                cv = n.constant
+                if cv is None or not n.type.isIntegral:
+                    raise self.unsupported(f"an operator on values of type '{n.left.type}' that "
+                                           f"is not a constant", n)
+                value = self.const_bits(cv, self.width(n.type, n), n)
+                break
             if n.kind == EK.BinaryOp:
                 spine.append(n)
                 n = n.left
@@ -74,13 +83,16 @@ class Expressions:
                 n = n.operand
             else:
                 break
+        if not spine and value is not None:
+            return value
         if not spine:  # a conversion this walk does not take: the general path
             self.enter(e)
             try:
                 return self._dispatch[e.kind](self, e)
             finally:
                 self._nest -= 1
-        value = self.ev(n)
+        if value is None:
+            value = self.ev(n)
         self.enter(e)
         try:
             for node in reversed(spine):
@@ -473,6 +485,21 @@ class Expressions:
         lo, hi = self.member_span(e)
         return self.ev(e.value)[lo:hi]
 
+    def _pattern(self, e):
+        """An assignment pattern ('{a, b}, '{default: ..., 1: ...}, '{n{...}}): slang lists the
+        resulting elements left to right, so the value is their concatenation, the first
+        element in the most significant place (like {a, b})."""
+        elems = list(e.elements)
+        if e.kind == EK.ReplicatedAssignmentPattern:
+            n = self.const_int(e.count)
+            if n is None or n < 0:  # pragma: no cover - slang requires a constant count
+                raise self.unsupported("a replication count that is not a constant", e)
+            elems = elems * n
+        out: list[str] = []
+        for op in reversed(elems):
+            out.extend(self.ev(op))
+        return self.fit(out, self.width(e.type, e), False)
+
     def _streaming(self, e):
         raise self.unsupported("streaming concatenation", e)
 
@@ -502,4 +529,7 @@ Expressions._dispatch = {
     EK.Assignment: Expressions._assignment_expr,
     EK.MemberAccess: Expressions._member,
     EK.Streaming: Expressions._streaming,
+    EK.SimpleAssignmentPattern: Expressions._pattern,
+    EK.StructuredAssignmentPattern: Expressions._pattern,
+    EK.ReplicatedAssignmentPattern: Expressions._pattern,
 }

@@ -213,6 +213,8 @@ class Hierarchy:
         for (pc, port, internal), cbits in zip(connections, child_bits):
             d = port.direction
             expr = pc.expression
+            if d == ast.ArgumentDirection.InOut and expr is not None:
+                d = self.inout_as(inst, port, internal, body, expr)
             if d not in (ast.ArgumentDirection.In, ast.ArgumentDirection.Out):
                 raise self.fail(f"port '{port.name}' of module '{inst.definition.name}' is "
                                 f"{d.name.lower()}: inout (tristate) and ref ports are not supported",
@@ -221,7 +223,15 @@ class Hierarchy:
                 continue  # unconnected: an input floats (caught if it matters), an output is unused
             self.set_source(expr)
             w = self.where(expr)
-            if d == ast.ArgumentDirection.In:
+            if port.direction == ast.ArgumentDirection.InOut:
+                outer = expr.left if expr.kind == EK.Assignment else expr
+                if d == ast.ArgumentDirection.In:
+                    bits = self.fit(self.ev(outer), len(cbits), outer.type.isSigned)
+                    for p, v in zip(cbits, bits):
+                        self.drive(p, v, w)
+                else:
+                    self.assign_lvalue(outer, [self.res(x) for x in cbits], w)
+            elif d == ast.ArgumentDirection.In:
                 bits = self.fit(self.ev(expr), len(cbits), expr.type.isSigned)
                 for p, v in zip(cbits, bits):
                     self.drive(p, v, w)
@@ -239,6 +249,57 @@ class Hierarchy:
             self.scope(body)
         finally:
             self.path, self.inst_hp = parent_path, parent_hp
+
+    def inout_as(self, inst, port, internal, body, expr):
+        """The direction an inout port of an inner module really has: In when the module only
+        reads it, Out when the module drives it (then nothing else may: the driver check
+        refuses a second one); InOut (refused) when it passes it on to another inout port."""
+        driven = False
+        both = False
+
+        def names_it(e) -> bool:
+            while True:
+                k = e.kind
+                if k == EK.NamedValue:
+                    return e.symbol is internal
+                if k == EK.Concatenation:
+                    return any(names_it(x) for x in e.operands)
+                if k in (EK.ElementSelect, EK.RangeSelect, EK.MemberAccess):
+                    e = e.value
+                elif k == EK.Conversion:
+                    e = e.operand
+                else:
+                    return False
+
+        def visit(n):
+            nonlocal driven, both
+            if isinstance(n, ast.AssignmentExpression) and names_it(n.left):
+                driven = True
+            elif isinstance(n, ast.PrimitiveInstanceSymbol):
+                conns = list(n.portConnections)
+                outs = conns[:-1] if n.primitiveType.name in ("buf", "not") else conns[:1]
+                for c in outs:
+                    if names_it(c.left if c.kind == EK.Assignment else c):
+                        driven = True
+            elif isinstance(n, ast.InstanceSymbol):
+                for pc in n.portConnections:
+                    e = pc.expression
+                    if e is None:
+                        continue
+                    if names_it(e.left if e.kind == EK.Assignment else e):
+                        if pc.port.direction == ast.ArgumentDirection.Out:
+                            driven = True
+                        elif pc.port.direction != ast.ArgumentDirection.In:
+                            both = True
+
+        body.visit(visit)
+        if both:
+            return ast.ArgumentDirection.InOut
+        d = ast.ArgumentDirection.Out if driven else ast.ArgumentDirection.In
+        what = "drives it: treated as an output" if driven else "only reads it: treated as an input"
+        note(f"inout port '{port.name}' of module '{inst.definition.name}': the module {what}",
+             self.loc.line(expr.sourceRange.start) if hasattr(expr, "sourceRange") else None)
+        return d
 
     def primitive(self, prim) -> None:
         ptype = prim.primitiveType

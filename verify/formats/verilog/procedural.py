@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from pyslang import ast
 
+from verify.formats.notes import note
 from verify.model import words
 from verify.model.netlist import CONST0, CONST1
 from verify.formats.verilog.common import _MAX_LOOP, BO, EK, SK, STK, UO, _stmt_words
@@ -33,7 +34,32 @@ class _Frame:
         self.cont = CONST0
         self.loops = 0
         self.first_write: dict[tuple, str | None] = {}
+        self.path: list[str] = []  # nets that are 1 on the path being executed (if conditions)
 
+
+
+MAX_CASE_LEAVES = 16
+MAX_CASE_GATES = 4000
+
+_EVAL = {
+    "not": lambda i, m: ~i[0], "buf": lambda i, m: i[0],
+    "and": lambda i, m: _fold(i, lambda a, b: a & b, m),
+    "or": lambda i, m: _fold(i, lambda a, b: a | b, 0),
+    "xor": lambda i, m: _fold(i, lambda a, b: a ^ b, 0),
+    "nand": lambda i, m: ~_fold(i, lambda a, b: a & b, m),
+    "nor": lambda i, m: ~_fold(i, lambda a, b: a | b, 0),
+    "xnor": lambda i, m: ~_fold(i, lambda a, b: a ^ b, 0),
+    "mux": lambda i, m: (i[0] & i[2]) | (~i[0] & i[1]),
+    "maj": lambda i, m: (i[0] & i[1]) | (i[0] & i[2]) | (i[1] & i[2]),
+    "const0": lambda i, m: 0, "const1": lambda i, m: m,
+}
+
+
+def _fold(values, fn, start):
+    acc = start
+    for v in values:
+        acc = fn(acc, v)
+    return acc
 
 
 class Procedural:
@@ -390,18 +416,96 @@ class Procedural:
         if f.returned:
             return
         base = self._branch()
-        self.exec(s.ifTrue)
+        f.path.append(c)
+        try:
+            self.exec(s.ifTrue)
+        finally:
+            f.path.pop()
         t_state, t_ret = self._branch(), f.returned
+        if s.ifFalse is None and self.impossible(f.path + [self.b.not_(c)]):
+            # no else, but on this path the condition cannot be false in two-valued logic (an
+            # if/else-if chain that covers every value): the missing else is never taken
+            self.two_valued_note(s, "if/else-if chain")
+            self._restore(t_state)
+            f.returned = t_ret
+            return
         self._restore(base)
         f.returned = False
         if s.ifFalse is not None:
-            self.exec(s.ifFalse)
+            f.path.append(self.b.not_(c))
+            try:
+                self.exec(s.ifFalse)
+            finally:
+                f.path.pop()
         e_state, e_ret = self._branch(), f.returned
         if t_ret != e_ret:
             raise self.unsupported("a return on only some paths through a function", s)
         self.set_source(s)
         self._restore(self._merge(c, t_state, e_state))
         f.returned = t_ret
+
+    def impossible(self, literals: list[str]) -> bool:
+        """True when the nets in ``literals`` can never all be 1 together, in two-valued logic.
+
+        Decided exactly by evaluating their fan-in over every assignment of its leaves (nets
+        no gate drives so far: inputs, placeholders), only when there are at most
+        ``MAX_CASE_LEAVES`` leaves and ``MAX_CASE_GATES`` gates; otherwise False (unknown).
+        """
+        if any(x == CONST0 for x in literals):
+            return True
+        lits = [x for x in dict.fromkeys(literals) if x != CONST1]
+        if not lits:
+            return False
+        ops = self.b._ops
+        order: list = []
+        leaves: dict[str, int] = {}
+        done: set[str] = set()
+        stack = [(x, False) for x in lits]
+        while stack:
+            net, expanded = stack.pop()
+            if expanded:
+                order.append(ops[net])
+                continue
+            if net in done or net in (CONST0, CONST1):
+                continue
+            done.add(net)
+            g = ops.get(net)
+            if g is None or net in self.b.tainted:
+                leaves[net] = len(leaves)
+                if len(leaves) > MAX_CASE_LEAVES:
+                    return False
+                continue
+            if len(done) > MAX_CASE_GATES:
+                return False
+            stack.append((net, True))
+            stack.extend((i, False) for i in g.inputs if i not in done)
+        n = len(leaves)
+        size = 1 << n
+        mask = (1 << size) - 1
+        val = {CONST0: 0, CONST1: mask}
+        for net, k in leaves.items():
+            block = 1 << k
+            pat = ((1 << block) - 1) << block  # ones where bit k of the assignment index is 1
+            width = block * 2
+            while width < size:
+                pat |= pat << width
+                width *= 2
+            val[net] = pat & mask
+        for g in order:
+            ins = [val[i] for i in g.inputs]
+            v = _EVAL.get(g.op)
+            if v is None:
+                return False  # an op this check does not know: no claim
+            val[g.output] = v(ins, mask) & mask
+        acc = mask
+        for x in lits:
+            acc &= val[x]
+        return acc == 0
+
+    def two_valued_note(self, s, what: str) -> None:
+        note(f"this {what} covers every value of its conditions in two-valued logic, so no latch "
+             f"is implied; x or z values on those conditions are not modeled",
+             self.loc.line(s.sourceRange.start))
 
     def exec_case(self, s) -> None:
         f = self.frame
@@ -427,6 +531,10 @@ class Procedural:
                 terms.append(self.case_match(sel, x, w, wild, covered, signed))
             matches.append(self.truth(terms))
         full = covered is not None and len(covered) == (1 << w)
+        if not full and s.defaultCase is None and matches and \
+                self.impossible(f.path + [self.b.not_(self.truth(matches))]):
+            full = True  # the items cover every value the selector can take here (two-valued)
+            self.two_valued_note(s, "case statement")
         base = self._branch()
         # execute every arm from the same starting state, then fold from the last arm upwards
         arms = []

@@ -12,6 +12,7 @@ unchanged, so a width sweep (the same files with ``params`` W=8, 16, 32...) only
 from __future__ import annotations
 
 import os
+import re
 from pathlib import Path
 from typing import Mapping, Sequence
 
@@ -215,23 +216,65 @@ def _diagnostics(pyslang, comp, sm, locator: Locator) -> None:
     raise InputError(msg, locator.where(d.location) or locator.names.get(next(iter(locator.names)), None))
 
 
-def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int]):
+_IDENT = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*(::[A-Za-z_][A-Za-z0-9_$]*)?\Z")
+
+
+def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int | str]):
+    """A compilation with the parameter overrides: a whole number; a name (an enum member, or
+    for a string parameter its text); a text in double quotes, or any other text, as a string."""
     from pyslang import ast
     opts = ast.CompilationOptions()
     if top:
         opts.topModules = {top}
     overrides = []
+    string_params = None
     for name, value in params.items():
-        if isinstance(value, bool) or not isinstance(value, int):
-            raise option_error(f"--param {name}: value must be a whole number, got {value!r}",
+        if isinstance(value, bool) or not isinstance(value, (int, str)):
+            what = "a whole number, an enum member or a string"
+            raise option_error(f"--param {name}: value must be {what}, got {value!r}",
                                None, option="--param",
-                               detail=f"'{name}': value must be a whole number, got {value!r}")
-        overrides.append(f"{name}={value}")
+                               detail=f"'{name}': value must be {what}, got {value!r}")
+        if isinstance(value, str):
+            text = value.strip()
+            if _IDENT.match(text):
+                if string_params is None:
+                    string_params = _string_params(pyslang, trees, top)
+                if name in string_params:
+                    text = _quote(text)
+            elif not (len(text) >= 2 and text[0] == text[-1] == '"'):
+                text = _quote(text)
+            overrides.append(f"{name}={text}")
+        else:
+            overrides.append(f"{name}={value}")
     opts.paramOverrides = overrides
     comp = ast.Compilation(pyslang.Bag([opts]))
     for t in trees:
         comp.addSyntaxTree(t)
     return comp
+
+
+def _quote(text: str) -> str:
+    return '"' + text.replace("\\", "\\\\").replace('"', '\\"') + '"'
+
+
+def _string_params(pyslang, trees, top: str | None) -> set[str]:
+    """Names of the top module's parameters of type string (one elaboration without
+    overrides; only needed when a --param value is a bare name)."""
+    from pyslang import ast
+    opts = ast.CompilationOptions()
+    if top:
+        opts.topModules = {top}
+    comp = ast.Compilation(pyslang.Bag([opts]))
+    for t in trees:
+        comp.addSyntaxTree(t)
+    out = set()
+    for inst in comp.getRoot().topInstances:
+        if top and inst.name != top:
+            continue
+        for m in inst.body:
+            if m.kind == ast.SymbolKind.Parameter and m.type.canonicalType.isString:
+                out.add(m.name)
+    return out
 
 
 def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | None = None,
