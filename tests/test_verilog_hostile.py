@@ -104,3 +104,14 @@ def test_fifo_as_design_file_or_include_is_refused(tmp_path):
               "  assign y = a;\nendmodule\n")
     with pytest.raises(InputError, match=r"inc\.v:1: `include \"pipe.v\" names a special file"):
         load([f])
+
+
+def test_a_very_long_chain_of_assigns_is_refused_at_once(tmp_path):
+    m = 300_000
+    body = "".join(f"  assign w[{i + 1}] = ~w[{i}];\n" for i in range(m))
+    f = write(tmp_path, "long.v", f"module chain(input a, output y);\n  wire [{m}:0] w;\n"
+              f"  assign w[0] = a;\n{body}  assign y = w[{m}];\nendmodule\n")
+    t = time.perf_counter()
+    with pytest.raises(InputError, match=r"more than 250,000 statements"):
+        load([f])
+    assert time.perf_counter() - t < 20  # generous floor: refused before parsing

@@ -23,6 +23,7 @@ def write(tmp_path: Path, name: str, text: str) -> Path:
     return p
 
 
+@pytest.mark.slow
 def test_4096_bit_ripple_through_generate_loops_loads(tmp_path):
     n = 4096
     f = write(tmp_path, "rip.v", f"""module fa(input a, b, c, output s, co);

@@ -12,6 +12,17 @@ class Constants:
     """Turns constant values into bits and folds constant integer expressions."""
 
     def const_bits(self, cv, width: int, node) -> list[str]:
+        if _is_container(cv):
+            # an unpacked array constant: its elements, leftmost first, are stored with the
+            # leftmost in the most significant place (as for an assignment pattern)
+            elems = list(cv.value)
+            if not elems or width % len(elems):
+                raise self.unsupported("a constant of this kind", node)
+            ew = width // len(elems)
+            out: list[str] = []
+            for el in reversed(elems):
+                out.extend(self.const_bits(el, ew, node))
+            return out
         sv = cv
         if not hasattr(sv, "toString") or not hasattr(sv, "bitWidth"):
             try:
@@ -151,6 +162,13 @@ class Constants:
             v = self.try_const(e.left if c else e.right)
             return None if v is None else v & mask
         return None
+
+
+def _is_container(cv) -> bool:
+    f = getattr(cv, "isContainer", None)
+    if f is None:
+        return False
+    return bool(f() if callable(f) else f)
 
 
 def _sv_chars(sv) -> list[str]:

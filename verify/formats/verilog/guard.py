@@ -21,6 +21,10 @@ from verify.errors import InputError
 MAX_FILE_BYTES = 512 * 1024 * 1024  # one source file
 MAX_UNIT_NESTING = 64  # module/program declarations nested inside each other
 MAX_INCLUDE_DEPTH = 64
+# statements (counted as ';') in all sources together: translating one takes about 0.3 ms, so
+# this bounds a load to about a minute and a half; an adder of 1,024 bits written gate by gate
+# needs some 50,000
+MAX_STATEMENTS = 250_000
 
 # Verilog-XL and vendor directives that do not change the logic of a design (fault simulation,
 # delay modes, protection and acceleration controls); slang is told to skip them
@@ -44,6 +48,7 @@ _TIMESCALE = re.compile(r"`timescale\b")
 class SourceFacts:
     directives: dict[str, str] = field(default_factory=dict)  # directive -> first file:line
     timescale: list[str] = field(default_factory=list)  # files that set one
+    statements: int = 0
     no_timescale: list[str] = field(default_factory=list)  # files with modules but none
 
 
@@ -101,6 +106,10 @@ def _scan(path: Path, include_dirs: Sequence[str], facts: SourceFacts, seen: set
                              f"refused", f"{path}:{line}")
         _scan(target, include_dirs, facts, seen, depth + 1)
     code = _STRING.sub('""', code)
+    facts.statements += code.count(";")
+    if facts.statements > MAX_STATEMENTS:
+        raise InputError(f"the sources hold more than {MAX_STATEMENTS:,} statements (counting "
+                         f"';'); refused as too large to translate in reasonable time", str(path))
     nest = 0
     modules = False
     for m in _UNIT.finditer(code):

@@ -9,6 +9,7 @@ from __future__ import annotations
 from pyslang import ast
 
 from verify.formats.notes import note
+from verify.formats.verilog.coverage import impossible
 from verify.model import words
 from verify.model.netlist import CONST0, CONST1
 from verify.formats.verilog.common import _MAX_LOOP, BO, EK, SK, STK, UO, _stmt_words
@@ -38,28 +39,30 @@ class _Frame:
 
 
 
-MAX_CASE_LEAVES = 16
-MAX_CASE_GATES = 4000
-
-_EVAL = {
-    "not": lambda i, m: ~i[0], "buf": lambda i, m: i[0],
-    "and": lambda i, m: _fold(i, lambda a, b: a & b, m),
-    "or": lambda i, m: _fold(i, lambda a, b: a | b, 0),
-    "xor": lambda i, m: _fold(i, lambda a, b: a ^ b, 0),
-    "nand": lambda i, m: ~_fold(i, lambda a, b: a & b, m),
-    "nor": lambda i, m: ~_fold(i, lambda a, b: a | b, 0),
-    "xnor": lambda i, m: ~_fold(i, lambda a, b: a ^ b, 0),
-    "mux": lambda i, m: (i[0] & i[2]) | (~i[0] & i[1]),
-    "maj": lambda i, m: (i[0] & i[1]) | (i[0] & i[2]) | (i[1] & i[2]),
-    "const0": lambda i, m: 0, "const1": lambda i, m: m,
-}
+# waveform-dump set-up only: an initial block that prints or stops is still refused, as before
+_SIM_TASKS = {"$dumpfile", "$dumpvars", "$dumpon", "$dumpoff", "$dumpall", "$dumplimit",
+              "$dumpflush", "$timeformat"}
 
 
-def _fold(values, fn, start):
-    acc = start
-    for v in values:
-        acc = fn(acc, v)
-    return acc
+def _only_system_tasks(stmt) -> bool:
+    """Whether a statement only calls simulation system tasks (no assignment, no timing)."""
+    stack = [stmt]
+    while stack:
+        s = stack.pop()
+        k = s.kind
+        if k == STK.List:
+            stack.extend(s.list)
+        elif k == STK.Block:
+            stack.append(s.body)
+        elif k == STK.Empty:
+            continue
+        elif k == STK.ExpressionStatement:
+            e = s.expr
+            if not (e.kind == EK.Call and e.isSystemCall and e.subroutineName in _SIM_TASKS):
+                return False
+        else:
+            return False
+    return True
 
 
 class Procedural:
@@ -69,6 +72,12 @@ class Procedural:
         pk = blk.procedureKind
         PK = ast.ProceduralBlockKind
         body = blk.body
+        if pk in (PK.Initial, PK.Final) and _only_system_tasks(body):
+            # $dumpfile/$dumpvars: waveform bookkeeping for a simulator, no logic
+            note(f"an {'initial' if pk == PK.Initial else 'final'} block that only calls "
+                 f"waveform-dump system tasks ($dumpfile, $dumpvars...) is ignored",
+                 self.loc.line(blk.location))
+            return
         if pk in (PK.Initial, PK.Final):
             raise self.unsupported(f"an {'initial' if pk == PK.Initial else 'final'} block "
                                    f"(a combinational design has no start-up behaviour)", blk)
@@ -445,62 +454,7 @@ class Procedural:
         f.returned = t_ret
 
     def impossible(self, literals: list[str]) -> bool:
-        """True when the nets in ``literals`` can never all be 1 together, in two-valued logic.
-
-        Decided exactly by evaluating their fan-in over every assignment of its leaves (nets
-        no gate drives so far: inputs, placeholders), only when there are at most
-        ``MAX_CASE_LEAVES`` leaves and ``MAX_CASE_GATES`` gates; otherwise False (unknown).
-        """
-        if any(x == CONST0 for x in literals):
-            return True
-        lits = [x for x in dict.fromkeys(literals) if x != CONST1]
-        if not lits:
-            return False
-        ops = self.b._ops
-        order: list = []
-        leaves: dict[str, int] = {}
-        done: set[str] = set()
-        stack = [(x, False) for x in lits]
-        while stack:
-            net, expanded = stack.pop()
-            if expanded:
-                order.append(ops[net])
-                continue
-            if net in done or net in (CONST0, CONST1):
-                continue
-            done.add(net)
-            g = ops.get(net)
-            if g is None or net in self.b.tainted:
-                leaves[net] = len(leaves)
-                if len(leaves) > MAX_CASE_LEAVES:
-                    return False
-                continue
-            if len(done) > MAX_CASE_GATES:
-                return False
-            stack.append((net, True))
-            stack.extend((i, False) for i in g.inputs if i not in done)
-        n = len(leaves)
-        size = 1 << n
-        mask = (1 << size) - 1
-        val = {CONST0: 0, CONST1: mask}
-        for net, k in leaves.items():
-            block = 1 << k
-            pat = ((1 << block) - 1) << block  # ones where bit k of the assignment index is 1
-            width = block * 2
-            while width < size:
-                pat |= pat << width
-                width *= 2
-            val[net] = pat & mask
-        for g in order:
-            ins = [val[i] for i in g.inputs]
-            v = _EVAL.get(g.op)
-            if v is None:
-                return False  # an op this check does not know: no claim
-            val[g.output] = v(ins, mask) & mask
-        acc = mask
-        for x in lits:
-            acc &= val[x]
-        return acc == 0
+        return impossible(self.b, literals)
 
     def two_valued_note(self, s, what: str) -> None:
         note(f"this {what} covers every value of its conditions in two-valued logic, so no latch "
