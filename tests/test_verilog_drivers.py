@@ -161,3 +161,24 @@ def test_icarus_shows_the_doubly_driven_adder_is_broken(tmp_path):
     g = write(tmp_path, "ok.v", _RIPPLE.format(before="", middle="", after=""))
     good = simulate([g], "rca4", {"a": 4, "b": 4}, {"s": 5}, vecs)
     assert all(r["s"] == v["a"] + v["b"] for v, r in zip(vecs, good))  # Python integers
+
+
+def test_an_output_written_by_two_blocks_is_refused(tmp_path):
+    # each block writes y before reading it, but the port itself is read by whoever uses it
+    f = write(tmp_path, "two_blocks.v", """module tb2(input a, b, output reg y);
+  always @* y = a & b;
+  always @* y = a | b;
+endmodule
+""")
+    with pytest.raises(InputError, match=r"'y' has more than one driver"):
+        load([f])
+    g = write(tmp_path, "inner.v", """module inner(input a, b, output reg y);
+  always @* y = a & b;
+  always @* y = a | b;
+endmodule
+module outer(input a, b, output z);
+  inner u(.a(a), .b(b), .y(z));
+endmodule
+""")
+    with pytest.raises(InputError, match=r"'u\.y' has more than one driver"):
+        load([g])

@@ -107,9 +107,10 @@ class Drivers:
         conflicts = {}
         for net, drivers in self.conflicts.items():
             keys = {k for _, k in drivers}
-            if None not in keys and not keys & self.outside_reads:
+            if None not in keys and not keys & self.outside_reads and not keys & self.port_keys:
                 # only procedural blocks write it, each before reading it, and nothing reads its
-                # module-level value (a loop index shared by several blocks): no ambiguity
+                # module-level value, not even through a port (a loop index shared by several
+                # blocks): no ambiguity
                 continue
             conflicts[net] = [w for w, _ in drivers]
         if not conflicts:

@@ -125,6 +125,7 @@ class Hierarchy:
                     self.placeholders[b] = None
                     self.sig_where[b] = self.where(port)
                 self.sigs[(self.path, internal)] = bits
+                self.port_keys.add((self.path, internal))
                 out_ports.append((port.name, bits))
             else:
                 raise self.fail(f"port '{port.name}' is {d.name.lower()}: inout (tristate) and ref "
@@ -209,6 +210,7 @@ class Hierarchy:
             connections.append((pc, port, internal))
         self.path, self.inst_hp = child_path, inst.hierarchicalPath
         child_bits = [self.sig(internal, port) for _, port, internal in connections]
+        self.port_keys.update((child_path, internal) for _, _, internal in connections)
         self.path, self.inst_hp = parent_path, parent_hp
         for (pc, port, internal), cbits in zip(connections, child_bits):
             d = port.direction

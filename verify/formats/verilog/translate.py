@@ -40,6 +40,7 @@ class Translator(Hierarchy, Expressions, Constants, Procedural, Unroll, Drivers)
         self.conflicts: dict[str, list[str | None]] = {}  # net -> where each driver is
         self.block_drives: dict[str, tuple] = {}  # net -> signal key, driven by a block
         self.outside_reads: set[tuple] = set()  # signals whose module-level value is read
+        self.port_keys: set[tuple] = set()  # signals that are ports (of the top or an instance)
         self.xnets: dict[str, str | None] = {}
         self.path = ""  # instance path prefix of the scope being translated, "" or "u1.u2."
         self.inst_hp = ""  # slang hierarchical path of that instance
