@@ -5,6 +5,7 @@ from __future__ import annotations
 
 import itertools
 import random
+import re
 import sys
 import time
 from pathlib import Path
@@ -86,7 +87,10 @@ def test_cell_netlist_with_liberty_matches_python_integers(tmp_path):
     text, count = adder_netlist(8)
     assert count == 8 * 6 + 2 * 2 + 1  # six cells a bit, two buffers every fourth bit, a tie
     f = write(tmp_path, "net.v", text)
-    sim = Simulator(load([f], cells=[LIB]))
+    n = load([f], cells=[LIB])
+    # each gate names the cell's line in the Liberty file and the instance it came from
+    assert all(re.match(r".*plain_cells\.lib:\d+ U\d+$", g.source) for g in n.gates)
+    sim = Simulator(n)
     for a in range(0, 256, 7):
         for b in range(0, 256, 11):
             for ci in (0, 1):

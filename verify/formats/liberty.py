@@ -397,6 +397,7 @@ def verilog_models(lib: CellLibrary) -> tuple[str, dict[str, str]]:
             pins = set(cell.inputs)
             for p in cell.outputs:
                 expr = function_to_verilog(cell.function[p], pins, where)
+                out.append(f"`line {cell.line} \"{lib.path}\" 0\n")
                 out.append(f"  assign {_vname(p)} = {expr};\n")
         else:
             refused[cell.name] = reason

@@ -103,7 +103,9 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
         lib = read_liberty(lib_path)
         text, why = verilog_models(lib)
         refused.update(why)
-        trees.append(syntax.SyntaxTree.fromText(text, sm, f"{lib_path} (cell models)", "", bag))
+        tree = syntax.SyntaxTree.fromText(text, sm, f"{lib_path} (cell models)", "", bag)
+        trees.append(tree)
+        refused[_GENERATED + str(_buffer_id(tree.root.sourceRange.start.buffer))] = str(lib_path)
     _TREE_CACHE[key] = [sm, trees, _dependencies(sm), refused]
     return sm, trees, refused
 
@@ -133,17 +135,25 @@ def _deps_unchanged(deps) -> bool:
     return True
 
 
+_GENERATED = "\0buffer:"  # key prefix, in the refused-cells map, of generated cell-model buffers
+
+
+def _buffer_id(buf) -> int:
+    return buf.id if hasattr(buf, "id") else hash(buf)
+
+
 class Locator:
     """Source locations as ``file:line:col`` using the paths the user gave."""
 
-    def __init__(self, sm, paths: Sequence[Path]):
+    def __init__(self, sm, paths: Sequence[Path], generated: dict[int, str] | None = None):
         self.sm = sm
         self.names = {str(p.resolve()): str(p) for p in paths}
-        self._cache: dict[int, str] = {}
+        # text made from a Liberty file (its `line directives give the lines): that file's name
+        self._cache: dict[int, str] = dict(generated or {})
 
     def file(self, loc) -> str:
         buf = loc.buffer
-        bid = buf.id if hasattr(buf, "id") else hash(buf)
+        bid = _buffer_id(buf)
         name = self._cache.get(bid)
         if name is None:
             try:
@@ -290,7 +300,10 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
     cells = [Path(c) for c in cells or []]
     sm, trees, refused_cells = _parse(pyslang, paths, list(include_dirs or []),
                                       dict(defines or {}), cells)
-    locator = Locator(sm, paths + cells)
+    generated = {int(k[len(_GENERATED):]): v for k, v in refused_cells.items()
+                 if k.startswith(_GENERATED)}
+    refused_cells = {k: v for k, v in refused_cells.items() if not k.startswith(_GENERATED)}
+    locator = Locator(sm, paths + cells, generated)
     duplicate_definitions(trees, locator)
     if facts.directives:
         listed = ", ".join(f"`{d}" for d in facts.directives)
