@@ -93,7 +93,7 @@ def slang_only(paths, params) -> float:
     import pyslang
     verilog._TREE_CACHE.clear()
     t = time.perf_counter()
-    sm, trees = verilog._parse(pyslang, paths, [], {})
+    sm, trees, _ = verilog._parse(pyslang, paths, [], {})
     comp = verilog._elaborate(pyslang, trees, None, params)
     comp.getRoot()
     verilog._diagnostics(pyslang, comp, sm, verilog.Locator(sm, paths))

@@ -137,7 +137,7 @@ def design_files(paths: Sequence[str | Path], *, recursive: bool = False
 def check_files(paths: Sequence[str | Path], spec=None, *,
                 params: Mapping[str, Sequence[int]] | None = None, top: str | None = None,
                 include_dirs: Sequence[str] = (), defines: Mapping[str, str | None] | None = None,
-                diagnose: bool = True, vcd_path: str | Path | None = None,
+                cells: Sequence[str | Path] = (), diagnose: bool = True, vcd_path: str | Path | None = None,
                 dot_path: str | Path | None = None, log_dir: str | Path | None = None,
                 recursive: bool = False, progress: Callable[[str, int, int], None] | None = None,
                 **check_options) -> Checks:
@@ -171,7 +171,7 @@ def check_files(paths: Sequence[str | Path], spec=None, *,
             run = FileCheck(" ".join(str(f) for f in files), files, dict(point))
             try:
                 design = load(files, top=top, params=point, include_dirs=include_dirs,
-                              defines=defines)
+                              defines=defines, cells=cells)
                 the_spec = resolve_spec(design, spec)
                 run.result = check(design, the_spec, progress=progress, **check_options)
                 late = next((e for e in run.result.engines

@@ -96,3 +96,21 @@ class EngineDisagreement(InternalError):
     def __init__(self, message: str, outcomes=()):
         super().__init__(message)
         self.outcomes = list(outcomes)
+
+
+class InputNote(UserWarning):
+    """Something a reader accepted but the user should know (an ignored directive or delay, a
+    slang warning that could change meaning, an inout port treated as an input).
+
+    Readers issue notes with ``warnings.warn(InputNote(message, where))``; the command line shows
+    each one once on stderr as ``note: <where>: <what>``. Catch them with
+    ``warnings.catch_warnings(record=True)`` and ``warnings.simplefilter("always", InputNote)``.
+    """
+
+    def __init__(self, message: str, where: str | None = None):
+        super().__init__(message)
+        self.message = message
+        self.where = where
+
+    def __str__(self) -> str:
+        return f"{self.where}: {self.message}" if self.where else self.message

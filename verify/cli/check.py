@@ -55,7 +55,7 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
               "default) or a TOML delay table.")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
-              params, include_dirs, defines, as_json, recursive, log_dir, no_log, vcd_path,
+              params, include_dirs, defines, cells, as_json, recursive, log_dir, no_log, vcd_path,
               dot_path, no_diagnose, settle_within, delays, quiet):
     from verify.batch import check_files, exit_code, project_log_dir
 
@@ -71,7 +71,7 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
         check_report_paths(vcd_path, dot_path)
         runs = check_files(
             paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
-            defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
+            defines=parse_defines(defines), cells=cells, diagnose=not no_diagnose, vcd_path=vcd_path,
             dot_path=dot_path, log_dir=log_dir, recursive=recursive, progress=bar,
             engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
             exhaustive_limit=exhaustive_limit, shard=parse_shard(shard),
@@ -181,7 +181,7 @@ def _print_text(runs) -> None:
 @click.option("-o", "--output", metavar="FILE", help="Write here (default: standard output).")
 @click.option("--force", is_flag=True, help="Replace FILE if it exists.")
 @verilog_options(sweep=False)
-def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
+def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines, cells):
     """Write any loaded design as structural Verilog or as a JSON netlist.
 
     \b
@@ -192,7 +192,7 @@ def export_cmd(paths, fmt, output, force, top, params, include_dirs, defines):
     from verify.formats.verilog import writer as verilog_writer
 
     design = load(list(paths), top=top, params=single_point(params, "export"),
-                  include_dirs=include_dirs, defines=parse_defines(defines))
+                  include_dirs=include_dirs, defines=parse_defines(defines), cells=cells)
     text = verilog_writer.dumps(design) if fmt == "verilog" else json_netlist.dumps(design)
     if output:
         write_text(output, text, what="design", force=force)

@@ -78,11 +78,11 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
 @click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
 @verilog_options(sweep=False)
 @click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")
-def shape_cmd(paths, top, params, include_dirs, defines, as_json):
+def shape_cmd(paths, top, params, include_dirs, defines, cells, as_json):
     from verify.formats import load
     from verify.library.shape import format_text, stats
     netlist = load(list(paths), top=top, params=single_point(params, "shape"),
-                   include_dirs=list(include_dirs), defines=parse_defines(defines))
+                   include_dirs=list(include_dirs), defines=parse_defines(defines), cells=cells)
     figures = stats(netlist)
     if as_json:
         click.echo(json.dumps(figures, indent=2))

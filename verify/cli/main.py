@@ -8,7 +8,9 @@ code 4 (never 1, which means a counterexample was found, and never 0).
 
 from __future__ import annotations
 
+import contextlib
 import sys
+import warnings
 
 import click
 
@@ -19,7 +21,7 @@ from verify.cli import library as library_commands
 from verify.cli import run as run_commands
 from verify.cli import timing as timing_commands
 from verify.cli.options import EXIT_CODES
-from verify.errors import EngineDisagreement, InputError
+from verify.errors import EngineDisagreement, InputError, InputNote
 
 PROG = "adder-verify"
 EXIT_INTERNAL = 4
@@ -31,7 +33,8 @@ class _Commands(click.Group):
 
     def invoke(self, ctx: click.Context):
         try:
-            code = super().invoke(ctx)
+            with _notes_on_stderr():
+                code = super().invoke(ctx)
         except (click.exceptions.ClickException, click.exceptions.Exit, click.exceptions.Abort):
             raise
         except Exception as e:  # noqa: BLE001 - every other outcome is worded and coded here
@@ -39,6 +42,26 @@ class _Commands(click.Group):
         if isinstance(code, int) and code:
             ctx.exit(code)
         return code
+
+
+@contextlib.contextmanager
+def _notes_on_stderr():
+    """Show each distinct InputNote a reader issues once, as ``note: ...`` on stderr."""
+    seen: set[str] = set()
+
+    def show(message, category, *args, **kwargs):
+        if issubclass(category, InputNote):
+            text = str(message)
+            if text not in seen:
+                seen.add(text)
+                click.echo(f"note: {text}", err=True)
+        else:  # pragma: no cover - other libraries' warnings keep Python's format
+            click.echo(warnings.formatwarning(message, category, *args, **kwargs), err=True, nl=False)
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("always", InputNote)
+        warnings.showwarning = show
+        yield
 
 
 @click.group(cls=_Commands, context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100},

@@ -23,8 +23,11 @@ def with_exit_codes(text: str) -> str:
     return f"{text.rstrip()}\n\n\b\n{EXIT_CODES}"
 
 
-def parse_params(values: tuple[str, ...]) -> dict[str, list[int]]:
-    """--param NAME=VALUE[,VALUE...] -> {NAME: [values]} (several values make a sweep)."""
+def parse_params(values: tuple[str, ...]) -> dict[str, list[int | str]]:
+    """--param NAME=VALUE[,VALUE...] -> {NAME: [values]} (several values make a sweep).
+
+    Whole numbers (decimal, 0x..., 0b...) become ints; anything else is kept as text, an enum
+    member or a string, which the Verilog reader checks against the parameter's type."""
     out: dict[str, list[int]] = {}
     for item in values:
         name, eq, rest = item.partition("=")
@@ -32,10 +35,12 @@ def parse_params(values: tuple[str, ...]) -> dict[str, list[int]]:
             raise InputError(f"'{item}': write NAME=VALUE or NAME=V1,V2,...", option="params")
         vals = []
         for v in rest.split(","):
+            if not v.strip():
+                raise InputError(f"{name}: an empty value", option="params")
             try:
                 vals.append(int(v.strip(), 0))
             except ValueError:
-                raise InputError(f"{name}: '{v}' is not a whole number", option="params") from None
+                vals.append(v.strip())  # an enum member or a string: the reader decides
         if name.strip() in out:
             raise InputError(f"{name.strip()} is given twice; for a sweep write "
                              f"{name.strip()}=V1,V2,...", option="params")
@@ -88,8 +93,8 @@ def check_report_paths(vcd_path: str | None, dot_path: str | None) -> None:
 
 
 def verilog_options(sweep: bool = True):
-    """--top, --param, -I and -D: how to elaborate Verilog designs (refused for JSON netlists).
-    ``sweep=False`` for commands that take one value per parameter."""
+    """--top, --param, -I, -D and --cells: how to elaborate Verilog designs (refused for JSON
+    netlists). ``sweep=False`` for commands that take one value per parameter."""
     param_help = ("Verilog: override a parameter (several values check each in turn)." if sweep
                   else "Verilog: override a parameter (one value).")
 
@@ -100,6 +105,9 @@ def verilog_options(sweep: bool = True):
                          metavar="NAME=V[,V...]" if sweep else "NAME=V", help=param_help),
             click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder."),
             click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define."),
+            click.option("--cells", multiple=True, metavar="FILE.lib",
+                         help="Liberty cell library: the cells a gate-level netlist instantiates "
+                              "get their logic from its 'function' attributes (repeatable)."),
         ]):
             f = option(f)
         return f

@@ -54,7 +54,7 @@ def _widths(text: str) -> list[int]:
 @click.option("--force", is_flag=True, help="Replace an existing --plot file.")
 @verilog_options()
 def timing_cmd(paths, delays, spec, as_json, from_text, to_text, vcd_path, widths, archs,
-               plot_path, time_limit, force, top, params, include_dirs, defines):
+               plot_path, time_limit, force, top, params, include_dirs, defines, cells):
     """Report topological and exact (floating-mode) delay of every output of DESIGN.
 
     The exact delay is the time after which every output holds its final value for every input
@@ -94,7 +94,7 @@ def timing_cmd(paths, delays, spec, as_json, from_text, to_text, vcd_path, width
 
         def loader(values):
             return load(list(paths), top=top, params=values, include_dirs=list(include_dirs),
-                        defines=parse_defines(defines))
+                        defines=parse_defines(defines), cells=cells)
         if swept:
             if len(swept) > 1:
                 raise InputError("sweep one parameter at a time", option="params")

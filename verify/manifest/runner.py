@@ -17,7 +17,8 @@ Optional keys: ``top``, ``params`` (a number or a list of numbers per parameter;
 parameters give every combination), ``require`` (default ``complete``), ``method`` (the engine,
 default ``auto``), ``time_limit`` (seconds, default 60), ``deliberately_broken`` (``true`` for a
 design broken on purpose, kept as a regression case: it meets the manifest when a counterexample
-is found), ``include_dirs``, ``defines``, ``seed``, ``vectors``, ``exhaustive_limit``,
+is found), ``include_dirs``, ``defines``, ``cells`` (Liberty files giving the logic of the
+cells a gate-level netlist instantiates), ``seed``, ``vectors``, ``exhaustive_limit``,
 ``settle_within`` (prove every output settled by that time for every input, floating mode; see
 ``verify.timing``) and ``delays`` (``unit``, the default, or a TOML delay table beside the
 manifest).
@@ -52,7 +53,8 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 REQUIRES = ("complete", "tested")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "sources", "spec", "top", "params", "require", "method", "time_limit",
-        "deliberately_broken", "include_dirs", "defines", "seed", "vectors", "exhaustive_limit",
+        "deliberately_broken", "include_dirs", "defines", "cells", "seed", "vectors",
+        "exhaustive_limit",
         "settle_within", "delays")
 REQUIRED = ("name", "sources", "spec")
 #: keys of earlier versions, refused with the key that replaced them
@@ -79,6 +81,7 @@ class Entry:
     time_limit: float = DEFAULT_TIMEOUT
     deliberately_broken: bool = False
     include_dirs: tuple[str, ...] = ()
+    cells: tuple[str, ...] = ()
     defines: tuple[tuple[str, str | None], ...] = ()
     seed: int = 1
     vectors: int | None = None
@@ -108,6 +111,7 @@ class Entry:
                 "seed": self.seed, "vectors": self.vectors,
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
                 "include_dirs": list(self.include_dirs), "defines": dict(self.defines),
+                "cells": list(self.cells),
                 **({"settle_within": self.settle_within, "delays": self.delays,
                     "delays_hash": self.delays_hash} if self.settle_within is not None else {})}
 
@@ -290,8 +294,15 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         else:
             raise bad("defines", f"'{dname}': give a string, a number or true")
 
-    if is_json and (top or params or include_dirs or defines):
-        used = [k for k in ("top", "params", "include_dirs", "defines") if table.get(k)]
+    cells = table.get("cells", [])
+    if not isinstance(cells, list) or not all(isinstance(c, str) and c for c in cells):
+        raise bad("cells", 'must be a list of Liberty files, e.g. cells = ["lib/cells.lib"]')
+    for c in cells:
+        if not (root / c).is_file():
+            raise bad("cells", f"no such file '{c}' (paths are relative to the manifest's folder)")
+
+    if is_json and (top or params or include_dirs or defines or cells):
+        used = [k for k in ("top", "params", "include_dirs", "defines", "cells") if table.get(k)]
         raise bad(used[0], "applies to Verilog files only; this entry is a JSON netlist")
 
     timeout = table.get("time_limit", DEFAULT_TIMEOUT)
@@ -312,7 +323,7 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         name=name, sources=tuple(files), spec=spec, top=top, params=tuple(params),
         require=choice("require", REQUIRES, "complete"), method=choice("method", ENGINES, "auto"),
         time_limit=float(timeout), deliberately_broken=broken,
-        include_dirs=tuple(include_dirs), defines=tuple(defines),
+        include_dirs=tuple(include_dirs), defines=tuple(defines), cells=tuple(cells),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
         exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
         key_where=tuple(key_where), settle_within=settle, delays=delays, delays_hash=delays_hash)
@@ -365,7 +376,8 @@ def label(name: str, point: dict[str, int]) -> str:
 def entry_files(entry: Entry, root: Path) -> list[Path]:
     """The files an entry's design may be read from (see ``verify.manifest.cache.dependencies``)."""
     from verify.manifest.cache import dependencies
-    return dependencies([root / f for f in entry.sources], [root / d for d in entry.include_dirs])
+    return dependencies([root / f for f in entry.sources], [root / d for d in entry.include_dirs]) \
+        + [root / c for c in entry.cells]
 
 
 def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dict[str, str]]:
@@ -394,6 +406,7 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryR
     try:
         design = load([root / f for f in entry.sources], top=entry.top, params=point or None,
                       include_dirs=[str(root / d) for d in entry.include_dirs],
+                      cells=[root / c for c in entry.cells],
                       defines=dict(entry.defines) or None)
         result = check(design, entry.spec, engine=entry.method, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.time_limit, require=entry.require,

@@ -12,12 +12,13 @@ unchanged, so a width sweep (the same files with ``params`` W=8, 16, 32...) only
 from __future__ import annotations
 
 import os
-import sys
-import threading
+import re
 from pathlib import Path
 from typing import Mapping, Sequence
 
 from verify.errors import InputError
+from verify.formats.notes import note
+from verify.formats.verilog.guard import XL_DIRECTIVES, check_sources, duplicate_definitions
 from verify.model.netlist import Netlist
 
 _TREE_CACHE: dict[tuple, list] = {}
@@ -68,22 +69,24 @@ def option_error(message: str, where: str | None, *, option: str, detail: str) -
 
 
 def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
-           defines: Mapping[str, str | None]):
-    """(source manager, syntax trees), cached while the files and options are unchanged."""
+           defines: Mapping[str, str | None], cells: Sequence[Path] = ()):
+    """(source manager, syntax trees, {cell: why refused}), cached while the files and options
+    are unchanged. ``cells``: Liberty files whose cells become Verilog modules."""
     for d in include_dirs:
         if not Path(d).is_dir():
             raise option_error("include folder does not exist", f"-I {d}", option="-I",
                                detail=f"include folder '{d}' does not exist")
-    key = (_file_key(paths), tuple(str(Path(d).resolve()) for d in include_dirs),
+    key = (_file_key(paths), _file_key(cells), tuple(str(Path(d).resolve()) for d in include_dirs),
            tuple(sorted((k, v) for k, v in defines.items())))
     hit = _TREE_CACHE.get(key)
     if hit is not None and _deps_unchanged(hit[2]):
-        return hit[:2]
+        return hit[0], hit[1], hit[3]
     from pyslang import parsing, syntax
     sm = pyslang.SourceManager()
     pp = parsing.PreprocessorOptions()
     pp.predefines = _define_strings(defines)
     pp.additionalIncludePaths = [str(Path(d)) for d in include_dirs]
+    pp.ignoreDirectives = set(XL_DIRECTIVES)
     bag = pyslang.Bag([pp])
     trees = []
     for p in paths:
@@ -94,8 +97,17 @@ def _parse(pyslang, paths: Sequence[Path], include_dirs: Sequence[str],
     _TREE_CACHE.pop(key, None)
     if len(_TREE_CACHE) >= _TREE_CACHE_MAX:
         _TREE_CACHE.pop(next(iter(_TREE_CACHE)))
-    _TREE_CACHE[key] = [sm, trees, _dependencies(sm)]
-    return sm, trees
+    refused: dict[str, str] = {}
+    for lib_path in cells:
+        from verify.formats.liberty import read_liberty, verilog_models
+        lib = read_liberty(lib_path)
+        text, why = verilog_models(lib)
+        refused.update(why)
+        tree = syntax.SyntaxTree.fromText(text, sm, f"{lib_path} (cell models)", "", bag)
+        trees.append(tree)
+        refused[_GENERATED + str(_buffer_id(tree.root.sourceRange.start.buffer))] = str(lib_path)
+    _TREE_CACHE[key] = [sm, trees, _dependencies(sm), refused]
+    return sm, trees, refused
 
 
 def _dependencies(sm) -> list[tuple[str, int, int]]:
@@ -123,17 +135,25 @@ def _deps_unchanged(deps) -> bool:
     return True
 
 
+_GENERATED = "\0buffer:"  # key prefix, in the refused-cells map, of generated cell-model buffers
+
+
+def _buffer_id(buf) -> int:
+    return buf.id if hasattr(buf, "id") else hash(buf)
+
+
 class Locator:
     """Source locations as ``file:line:col`` using the paths the user gave."""
 
-    def __init__(self, sm, paths: Sequence[Path]):
+    def __init__(self, sm, paths: Sequence[Path], generated: dict[int, str] | None = None):
         self.sm = sm
         self.names = {str(p.resolve()): str(p) for p in paths}
-        self._cache: dict[int, str] = {}
+        # text made from a Liberty file (its `line directives give the lines): that file's name
+        self._cache: dict[int, str] = dict(generated or {})
 
     def file(self, loc) -> str:
         buf = loc.buffer
-        bid = buf.id if hasattr(buf, "id") else hash(buf)
+        bid = _buffer_id(buf)
         name = self._cache.get(bid)
         if name is None:
             try:
@@ -166,14 +186,36 @@ class Locator:
         return w.rsplit(":", 1)[0] if w else None
 
 
+# slang errors about delays only: this tool ignores time, so a `timescale in one file and not in
+# another does not matter
+_TIME_ONLY = ("MissingTimeScale", "MismatchedTimeScales", "TimeScaleFirstInScope")
+# slang warnings that can change what a design means: shown as notes, once each
+_MEANINGFUL = {"WidthTruncate": None, "PortWidthTruncate": None, "PortWidthExpand": None,
+               "ImplicitNet": None, "UnconnectedInputPort": None, "UnconnectedInOutPort": None,
+               "UnconnectedOutputPort": None, "UnconnectedUnnamedPort": None}
+
+
 def _diagnostics(pyslang, comp, sm, locator: Locator) -> None:
-    """Raise the first error slang reports (with a count of the rest); warnings pass."""
+    """Raise the first error slang reports (with a count of the rest); meaningful warnings
+    become notes; errors about time scales only become one note."""
     engine = pyslang.DiagnosticEngine(sm)
+    time_only = {getattr(pyslang.Diags, n) for n in _TIME_ONLY if hasattr(pyslang.Diags, n)}
+    meaningful = {getattr(pyslang.Diags, n) for n in _MEANINGFUL if hasattr(pyslang.Diags, n)}
     errors = []
+    timescale_at = None
     for d in comp.getAllDiagnostics():
+        if d.code in time_only:
+            timescale_at = timescale_at or locator.where(d.location) or "?"
+            continue
         sev = engine.getSeverity(d.code, d.location)
         if sev in (pyslang.DiagnosticSeverity.Error, pyslang.DiagnosticSeverity.Fatal) or d.isError():
             errors.append(d)
+        elif d.code in meaningful:
+            note(f"warning from the Verilog front end: {engine.formatMessage(d)}",
+                 locator.line(d.location))
+    if timescale_at and not errors:
+        note("`timescale is set in some files and not in others; delays are ignored (only the "
+             "logic is checked), so this does not matter here", timescale_at)
     if not errors:
         return
     d = errors[0]
@@ -184,18 +226,36 @@ def _diagnostics(pyslang, comp, sm, locator: Locator) -> None:
     raise InputError(msg, locator.where(d.location) or locator.names.get(next(iter(locator.names)), None))
 
 
-def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int]):
+_IDENT = re.compile(r"[A-Za-z_][A-Za-z0-9_$]*(::[A-Za-z_][A-Za-z0-9_$]*)?\Z")
+
+
+def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int | str]):
+    """A compilation with the parameter overrides: a whole number; a name (an enum member, or
+    for a string parameter its text); a text in double quotes, or any other text, as a string."""
     from pyslang import ast
     opts = ast.CompilationOptions()
     if top:
         opts.topModules = {top}
     overrides = []
+    string_params = None
     for name, value in params.items():
-        if isinstance(value, bool) or not isinstance(value, int):
-            raise option_error(f"--param {name}: value must be a whole number, got {value!r}",
+        if isinstance(value, bool) or not isinstance(value, (int, str)):
+            what = "a whole number, an enum member or a string"
+            raise option_error(f"--param {name}: value must be {what}, got {value!r}",
                                None, option="--param",
-                               detail=f"'{name}': value must be a whole number, got {value!r}")
-        overrides.append(f"{name}={value}")
+                               detail=f"'{name}': value must be {what}, got {value!r}")
+        if isinstance(value, str):
+            text = value.strip()
+            if _IDENT.match(text):
+                if string_params is None:
+                    string_params = _string_params(pyslang, trees, top)
+                if name in string_params:
+                    text = _quote(text)
+            elif not (len(text) >= 2 and text[0] == text[-1] == '"'):
+                text = _quote(text)
+            overrides.append(f"{name}={text}")
+        else:
+            overrides.append(f"{name}={value}")
     opts.paramOverrides = overrides
     comp = ast.Compilation(pyslang.Bag([opts]))
     for t in trees:
@@ -203,16 +263,52 @@ def _elaborate(pyslang, trees, top: str | None, params: Mapping[str, int]):
     return comp
 
 
+def _quote(text: str) -> str:
+    return '"' + text.replace("\\", "\\\\").replace('"', '\\"') + '"'
+
+
+def _string_params(pyslang, trees, top: str | None) -> set[str]:
+    """Names of the top module's parameters of type string (one elaboration without
+    overrides; only needed when a --param value is a bare name)."""
+    from pyslang import ast
+    opts = ast.CompilationOptions()
+    if top:
+        opts.topModules = {top}
+    comp = ast.Compilation(pyslang.Bag([opts]))
+    for t in trees:
+        comp.addSyntaxTree(t)
+    out = set()
+    for inst in comp.getRoot().topInstances:
+        if top and inst.name != top:
+            continue
+        for m in inst.body:
+            if m.kind == ast.SymbolKind.Parameter and m.type.canonicalType.isString:
+                out.add(m.name)
+    return out
+
+
 def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | None = None,
          include_dirs: list[str] | None = None,
-         defines: dict[str, str | None] | None = None) -> Netlist:
+         defines: dict[str, str | None] | None = None,
+         cells: list[Path] | None = None) -> Netlist:
     """Elaborate the Verilog files and translate the top module into a validated Netlist."""
     pyslang = _import_pyslang()
     from verify.formats.verilog.translate import Translator
     paths = [Path(p) for p in paths]
     params = dict(params or {})
-    sm, trees = _parse(pyslang, paths, list(include_dirs or []), dict(defines or {}))
-    locator = Locator(sm, paths)
+    facts = check_sources(paths, list(include_dirs or []))
+    cells = [Path(c) for c in cells or []]
+    sm, trees, refused_cells = _parse(pyslang, paths, list(include_dirs or []),
+                                      dict(defines or {}), cells)
+    generated = {int(k[len(_GENERATED):]): v for k, v in refused_cells.items()
+                 if k.startswith(_GENERATED)}
+    refused_cells = {k: v for k, v in refused_cells.items() if not k.startswith(_GENERATED)}
+    locator = Locator(sm, paths + cells, generated)
+    duplicate_definitions(trees, locator)
+    if facts.directives:
+        listed = ", ".join(f"`{d}" for d in facts.directives)
+        note(f"Verilog-XL directives that do not change the logic are ignored: {listed}",
+             next(iter(facts.directives.values())))
     comp = _elaborate(pyslang, trees, top, params)
     root = comp.getRoot()
     first = str(paths[0])
@@ -235,6 +331,12 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
             raise option_error(f"{why}; name the top with --top {listed}", first, option="--top",
                                detail=f"{why}; name the top module {listed}")
         raise InputError("no module found in the given files", first)
+    if len(tops) > 1 and not top:
+        # cells of a library (from --cells, or Verilog models between `celldefine and
+        # `endcelldefine) that the netlist does not use are not candidates for the top
+        design = [t for t in tops if not t.definition.cellDefine]
+        if len(design) == 1:
+            tops = design
     if len(tops) > 1:
         names = ", ".join(sorted(t.name for t in tops))
         raise option_error(f"several candidate top modules ({names}); choose one with --top NAME",
@@ -243,41 +345,18 @@ def load(paths: list[Path], *, top: str | None = None, params: dict[str, int] | 
     inst = tops[0]
     _check_params(inst, params, locator)
     translator = Translator(locator, origin=", ".join(str(p) for p in paths))
-    return _deep(lambda: translator.run(inst), str(paths[0]))
+    translator.refused_cells = refused_cells
+    return _translate(translator, inst, str(paths[0]))
 
 
-def _deep(fn, where: str):
-    """Run the (recursive) translation on a thread with a large stack and recursion limit, so
-    that a generated expression thousands of operators deep translates instead of crashing."""
-    out: dict[str, object] = {}
-
-    def target():
-        try:
-            out["value"] = fn()
-        except RecursionError:
-            out["error"] = InputError("an expression or statement is nested too deeply to "
-                                      "translate", where)
-        except BaseException as e:  # handed to the caller's thread unchanged
-            out["error"] = e
-
-    old_limit = sys.getrecursionlimit()
-    old_stack = threading.stack_size()
+def _translate(translator, inst, where: str):
+    """Run the translation. Nesting is bounded (common.MAX_NEST) well inside the interpreter's
+    own recursion limit, which is never changed; a RecursionError that still escapes (a design
+    nested in a way the bound does not count) becomes an input error, not a crash."""
     try:
-        threading.stack_size(_STACK_BYTES)
-        sys.setrecursionlimit(max(old_limit, _RECURSION_LIMIT))
-        t = threading.Thread(target=target, name="verilog-translate")
-        t.start()
-        t.join()
-    finally:
-        threading.stack_size(old_stack)
-        sys.setrecursionlimit(old_limit)
-    if "error" in out:
-        raise out["error"]  # type: ignore[misc]
-    return out["value"]
-
-
-_STACK_BYTES = 512 * 1024 * 1024
-_RECURSION_LIMIT = 200_000
+        return translator.run(inst)
+    except RecursionError:
+        raise InputError("the design is nested too deeply to translate", where) from None
 
 
 def _definitions(comp):
