@@ -39,6 +39,7 @@ h2 { font-size: 1.25em; margin-top: 1.8em; border-bottom: 1px solid #ccc; }
 h3 { font-size: 1.1em; margin: 0 0 .4em; }
 code, pre, .bits td, .bits th { font-family: ui-monospace, "DejaVu Sans Mono", Menlo, monospace; }
 table { border-collapse: collapse; margin: .4em 0 .8em; }
+caption { text-align: left; font-size: .9em; color: #444; padding-bottom: .2em; }
 th, td { border: 1px solid #d0d0d0; padding: .2em .5em; text-align: left; vertical-align: top; }
 thead th { background: #f0f0f0; }
 td.num { text-align: right; white-space: nowrap; }
@@ -71,6 +72,7 @@ figcaption { font-size: .9em; color: #444; }
 pre { background: #f6f6f6; border: 1px solid #ddd; padding: .5em .7em; overflow-x: auto;
       white-space: pre-wrap; word-break: break-all; }
 .note { color: #6d4100; }
+.legend { font-size: .9em; color: #444; margin-bottom: 0; }
 footer { margin-top: 2em; font-size: .9em; color: #555; }
 """
 
@@ -213,9 +215,10 @@ def _bit_table(bits: Mapping[str, Any]) -> str:
         mark = cls if other is not None and row.get(other) is not None and row[other] != v else ""
         return f'<td class="{mark}">{_e(v)}</td>' if mark else f"<td>{_e(v)}</td>"
 
-    out = [f'<table class="bits"><caption>bit by bit: columns are bits of {_e(a_name)} + '
-           f'{_e(b_name)}, column {n} is the carry out; red: a wrong bit of the sum, amber: a '
-           f'wrong carry; "." where no net of the design carries that carry</caption>',
+    out = [f'<p class="legend">Columns are bits of {_e(a_name)} + {_e(b_name)}, column {n} is '
+           f'the carry out; red: a wrong bit of the sum, amber: a wrong carry; "." where no net '
+           f'of the design carries that carry.</p>',
+           '<table class="bits"><caption>the counterexample, bit by bit</caption>',
            '<thead><tr><th scope="col">bit</th>'
            + "".join(f'<th scope="col">{r["bit"]}</th>' for r in order) + "</tr></thead><tbody>"]
     spec = [(a_name, "a", None, ""), (b_name, "b", None, ""),
