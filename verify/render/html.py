@@ -70,7 +70,7 @@ figure.cone { margin: .5em 0; overflow-x: auto; border: 1px solid #e0e0e0; paddi
 figure.cone svg { max-width: 100%; height: auto; }
 figcaption { font-size: .9em; color: #444; }
 pre { background: #f6f6f6; border: 1px solid #ddd; padding: .5em .7em; overflow-x: auto;
-      white-space: pre-wrap; word-break: break-all; }
+      white-space: pre-wrap; overflow-wrap: anywhere; }
 .note { color: #6d4100; }
 .legend { font-size: .9em; color: #444; margin-bottom: 0; }
 footer { margin-top: 2em; font-size: .9em; color: #555; }
@@ -238,6 +238,9 @@ def _bit_table(bits: Mapping[str, Any]) -> str:
                  if "carry_net" in first else ", no net of the design carries it")
         out.append(f"<p>First wrong bit: {min(wrong)} of the sum ({_e(first.get('output'))}); "
                    f"carry into it: expected {_e(first['carry_expected'])}{_e(carry)}.</p>")
+    else:
+        out.append("<p>Every bit of the sum is right on this vector; the wrong output is in the "
+                   "table above.</p>")
     return "\n".join(out)
 
 
@@ -319,6 +322,9 @@ def _entry_section(record: EntryRecord, index: int, waveform: str | None) -> str
     if record.ok and record.deliberately_broken:
         out.append("<p>Marked deliberately broken in the manifest; the check caught it with this "
                    "counterexample, so the entry meets its manifest.</p>")
+    elif record.counterexample and record.status.value == "counterexample":
+        out.append("<p><strong>Why it does not meet the manifest:</strong> the design gives "
+                   "wrong outputs on the counterexample below.</p>")
     elif not record.ok:
         out.append(f"<p><strong>Why it does not meet the manifest:</strong> "
                    f"{_e(problem_text(record) or '')}</p>")
