@@ -8,6 +8,7 @@ reproduce commands are run.
 
 from __future__ import annotations
 
+import json
 import os
 import shlex
 import shutil
@@ -291,7 +292,7 @@ def test_failing_entry_prints_its_command_everywhere(tmp_path):
         '[[design]]\nname = "add8"\nsources = ["rtl dir/add8.v"]\n'
         'spec = "{cout, sum} = a + b + cin"\n')
     done = subprocess.run([sys.executable, "-m", "verify", "run", "-q", "--html", "r.html",
-                           "--markdown", "r.md"], cwd=tmp_path, env=_env(), capture_output=True,
+                           "--markdown", "r.md", "--json", "r.json"], cwd=tmp_path, env=_env(), capture_output=True,
                           text=True, timeout=300)
     assert done.returncode == 1, done.stdout + done.stderr
     line = next(x for x in done.stdout.splitlines() if "explain it:" in x)
@@ -300,6 +301,8 @@ def test_failing_entry_prints_its_command_everywhere(tmp_path):
     assert argv[2] == "rtl dir/add8.v"  # a path with a space survives the shell
     assert argv[argv.index("--spec") + 1] == "{cout, sum} = a + b + cin"
     assert cmd in (tmp_path / "r.md").read_text()
+    summary = json.loads((tmp_path / "r.json").read_text())
+    assert summary["entries"][0]["reproduce"] == cmd
     root = parse((tmp_path / "r.html").read_text())
     assert _commands(root, "add8") == [cmd]
     assert _run_explain(cmd, tmp_path).returncode == 1
