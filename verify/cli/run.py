@@ -88,6 +88,18 @@ def _check_report_paths(reports) -> None:
         can_write(path, what=what, replace_reports=True, kind=kind)
 
 
+def _write_html(summary, html_path: str) -> None:
+    """The waveforms first (``<page stem>-waves/`` beside the page), then the page linking them."""
+    from verify.render import html
+
+    links = {}
+    for label, path in html.waveform_paths(summary, html_path).items():
+        record = next(r for r in summary.records if r.label == label)
+        _write(str(path), record.diagnosis.waveform_vcd, "waveform")
+        links[label] = html.relative_href(path, html_path)
+    _write(html_path, html.render_html(summary, links), "HTML report")
+
+
 def _report_entry_errors(summary) -> None:
     """One line on stderr per entry that could not be checked (the table lists them too)."""
     shown = set()
@@ -110,13 +122,17 @@ def _report_entry_errors(summary) -> None:
               "instead of the table).")
 @click.option("--markdown", "md_path", metavar="FILE", help="Write a short Markdown summary for a "
               "pull-request comment.")
+@click.option("--html", "html_path", metavar="FILE", help="Write one self-contained HTML page: "
+              "every entry, and for each counterexample its bit table, suspects, cone picture, "
+              "waveform (written beside it) and the command that reproduces it.")
 @click.option("--no-cache", is_flag=True, help="Check everything again, ignoring recorded verdicts.")
 @click.option("--cache-dir", metavar="DIR", help="Where verdicts are recorded (default: "
               ".verify-cache next to the manifest).")
 @click.option("--only", "only", multiple=True, metavar="NAME", help="Check only this design "
               "(repeatable).")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
-def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir, only, quiet):
+def run_cmd(manifest, jobs, junit_path, json_path, md_path, html_path, no_cache, cache_dir, only,
+            quiet):
     """Check every design of MANIFEST (default ./verify.toml) at every parameter value.
 
     Exit 0 when every entry meets its manifest, 1 when a result contradicts it (a counterexample,
@@ -129,6 +145,7 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
     try:
         _check_report_paths([(junit_path, "JUnit report", "--junit", "junit"),
                              (md_path, "Markdown summary", "--markdown", "markdown"),
+                             (html_path, "HTML report", "--html", "html"),
                              (None if json_path == "-" else json_path, "JSON summary", "--json",
                               rb.JSON_FORMAT)])
         loaded = gate.load_manifest(manifest)
@@ -140,11 +157,11 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
     show = _progress(quiet or json_path == "-")
     if show is None:
         summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
-                           only=only or None)
+                           only=only or None, diagnose=bool(html_path))
     else:
         with show:
             summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
-                               progress=show, only=only or None)
+                               progress=show, only=only or None, diagnose=bool(html_path))
     _report_entry_errors(summary)
     for note in summary.warnings:
         click.echo(f"warning: {note}", err=True)
@@ -152,6 +169,8 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, no_cache, cache_dir,
         _write(junit_path, rb.render_junit(summary), "JUnit report")
     if md_path:
         _write(md_path, rb.render_markdown(summary), "Markdown summary")
+    if html_path:
+        _write_html(summary, html_path)
     if json_path == "-":
         click.echo(rb.dumps_json(summary), nl=False)
     else:

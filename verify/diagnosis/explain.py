@@ -51,8 +51,8 @@ def diagnose(design: Netlist, spec, counterexample: Counterexample, *,
     ``dot``, ``svg`` (paths or None), ``trace`` (the first wrong value's path), ``bits``,
     ``model``, ``notes``.
     """
-    an = analyse(design, spec, [counterexample.inputs], count=vectors, seed=seed, top=top)
-    findings = _findings(an, counterexample)
+    an, findings = analyse_failure(design, spec, counterexample, vectors=vectors, seed=seed,
+                                   top=top)
     if vcd_path is None and log_dir is not None:
         vcd_path = default_vcd_path(design, log_dir)
     if vcd_path is not None:
@@ -63,6 +63,15 @@ def diagnose(design: Netlist, spec, counterexample: Counterexample, *,
         if note:
             findings["notes"].append(note)
     return findings
+
+
+def analyse_failure(design: Netlist, spec, counterexample: Counterexample, *,
+                    vectors: int = DEFAULT_VECTORS, seed: int = 1, top: int = 5
+                    ) -> tuple[Analysis, dict[str, Any]]:
+    """The analysis behind ``diagnose`` and its JSON-ready findings, with no file written (for
+    callers that draw the waveform and the cone themselves: ``waveform_text``, ``cone_text``)."""
+    an = analyse(design, spec, [counterexample.inputs], count=vectors, seed=seed, top=top)
+    return an, _findings(an, counterexample)
 
 
 def attach(result, design: Netlist, spec=None, *, vcd_path: str | Path | None = None,
@@ -458,6 +467,11 @@ def _port_table(design: Netlist, cex: Counterexample) -> list[str]:
 
 def write_waveform(an: Analysis, spec, path: str | Path) -> Path:
     """The counterexample (step 0) and up to MORE_FAILING other failing vectors as a VCD file."""
+    return write_text(path, waveform_text(an), what="waveform", replace_reports=True)
+
+
+def waveform_text(an: Analysis) -> str:
+    """The VCD text ``write_waveform`` writes."""
     from verify.render import vcd
 
     picks = [0]
@@ -471,8 +485,7 @@ def write_waveform(an: Analysis, spec, path: str | Path) -> Path:
     expected = [values_at(an.design.outputs, expected_words, j) for j in picks]
     comment = (f"adder-verify diagnosis of {an.design.name}: step 0 is the vector diagnosed, "
                f"steps 1.. are other failing vectors")
-    return write_text(path, vcd.dumps(an.design, vectors, expected=expected, comment=comment),
-                      what="waveform", replace_reports=True)
+    return vcd.dumps(an.design, vectors, expected=expected, comment=comment)
 
 
 def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
@@ -481,18 +494,7 @@ def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
 
     Returns (dot path, svg path or None, a note when no SVG was made).
     """
-    from verify.render.dot import cone_dot
-
-    target = findings.get("first_wrong") or (an.wrong_bits[0] if an.wrong_bits else None)
-    if target is None:
-        target = an.design.output_bits[0]
-    suspects = [s.net for s in an.suspects[:3]]
-    diverging = set()
-    if an.repaired:
-        diverging = {n for n in an.repaired if (an.values[n] ^ an.repaired[n]) & 1}
-    text = cone_dot(an.design, target, suspects, diverging,
-                    values={n: an.values[n] & 1 for n in an.values})
-    path = write_text(path, text, what="cone picture", replace_reports=True)
+    path = write_text(path, cone_text(an, findings), what="cone picture", replace_reports=True)
     exe = shutil.which("dot")
     if exe is None:
         return path, None, "Graphviz 'dot' is not installed: wrote the DOT file only"
@@ -512,5 +514,21 @@ def write_cone(an: Analysis, findings: Mapping[str, Any], path: str | Path
     return path, svg, None
 
 
-__all__ = ["diagnose", "attach", "explain", "render_text", "parse_inputs", "default_vcd_path",
-           "write_waveform", "write_cone", "NO_MODEL_NOTE"]
+def cone_text(an: Analysis, findings: Mapping[str, Any]) -> str:
+    """The DOT text of the fan-in cone of the first failing output (what ``write_cone`` writes)."""
+    from verify.render.dot import cone_dot
+
+    target = findings.get("first_wrong") or (an.wrong_bits[0] if an.wrong_bits else None)
+    if target is None:
+        target = an.design.output_bits[0]
+    suspects = [s.net for s in an.suspects[:3]]
+    diverging = set()
+    if an.repaired:
+        diverging = {n for n in an.repaired if (an.values[n] ^ an.repaired[n]) & 1}
+    return cone_dot(an.design, target, suspects, diverging,
+                    values={n: an.values[n] & 1 for n in an.values})
+
+
+__all__ = ["diagnose", "analyse_failure", "waveform_text", "cone_text", "attach", "explain",
+           "render_text", "parse_inputs", "default_vcd_path", "write_waveform", "write_cone",
+           "NO_MODEL_NOTE"]

@@ -44,6 +44,20 @@ def meets(verdict: Verdict, require: str, deliberately_broken: bool) -> int:
 
 
 @dataclass
+class EntryDiagnosis:
+    """Advice on one counterexample of a record, worked out for a report (never a verdict, never
+    cached): the ranked suspects, the other findings, the cone as DOT text and the waveform as
+    VCD text. ``problem`` says why there is none when the diagnosis could not be made."""
+
+    suspects: list[dict[str, Any]] = field(default_factory=list)
+    #: the rest of verify.diagnosis.explain's findings: bits, trace, notes, model, outputs...
+    details: dict[str, Any] = field(default_factory=dict)
+    cone_dot: str | None = None
+    waveform_vcd: str | None = None
+    problem: str | None = None
+
+
+@dataclass
 class EntryRecord:
     """One entry at one parameter point: what was checked and what came of it."""
 
@@ -73,6 +87,10 @@ class EntryRecord:
     file_hashes: dict[str, str] = field(default_factory=dict)
     #: the label of the entry whose check this one shares (same files, spec and options)
     same_as: str | None = None
+    #: the command line (argv) that reproduces this record; see verify.manifest.followup
+    reproduce: list[str] = field(default_factory=list)
+    #: set by ``run(..., diagnose=True)`` on records with a counterexample; not stored
+    diagnosis: EntryDiagnosis | None = None
 
     def __post_init__(self) -> None:
         self.verdict = Verdict(self.verdict)
@@ -103,7 +121,8 @@ class EntryRecord:
         return replace(self, **changes)
 
     def to_json(self) -> dict[str, Any]:
-        out = asdict(self)
+        out = asdict(self.but(diagnosis=None))
+        del out["diagnosis"]
         out["verdict"] = self.verdict.value
         return out
 

@@ -513,13 +513,16 @@ Progress = Callable[[str, int, int, "EntryRecord | None", str], None]
 
 def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cache: bool = True,
         cache_dir: str | Path | None = None, progress: Progress | None = None,
-        only: Iterable[str] | None = None, point: dict[str, int] | None = None) -> RunSummary:
+        only: Iterable[str] | None = None, point: dict[str, int] | None = None,
+        diagnose: bool = False) -> RunSummary:
     """Check every entry of ``manifest`` at every parameter point.
 
     Records come back in manifest order whatever order workers finish in, so ``jobs`` changes the
     time taken, never the results. ``only`` limits the run to the named entries, ``point`` to one
-    parameter point of them.
+    parameter point of them. Every record gets the command that reproduces it; ``diagnose``
+    also attaches a diagnosis to each record with a counterexample (for the HTML report).
     """
+    from verify.manifest import followup
     from verify.manifest.cache import CACHE_DIR, Cache
 
     started = time.perf_counter()
@@ -607,6 +610,10 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
                 i, key, files = futures[fut]
                 store(i, fut.result(), key, files)
     final = [r for r in records if r is not None]
+    for r, (e, p) in zip(final, work):
+        r.reproduce = followup.reproduce_argv(e, p, r, manifest.path.parent)
+        if diagnose and r.counterexample:
+            r.diagnosis = followup.diagnose_entry(e, p, root, r)
     counts: dict[str, int] = {}
     for r in final:
         counts[r.status.value] = counts.get(r.status.value, 0) + 1

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import json
 import re
+import shlex
 import xml.etree.ElementTree as ET
 from typing import Any
 
@@ -80,6 +81,23 @@ def _evidence(record: EntryRecord) -> str:
     return "; ".join(parts) or (record.coverage or "no engine established the spec")
 
 
+def command_text(record: EntryRecord) -> str | None:
+    """The shell command (quoted for a POSIX shell) that reproduces the record: for a
+    counterexample, ``adder-verify explain`` on its vector; otherwise ``adder-verify check`` with
+    the entry's options. Paths are relative to the folder the run started in."""
+    return shlex.join(record.reproduce) if record.reproduce else None
+
+
+def next_step(record: EntryRecord) -> str | None:
+    """'explain it: adder-verify explain ...' for a record that does not meet its entry (not for
+    an entry that could not be read: its error line says what to fix)."""
+    cmd = command_text(record)
+    if record.ok or record.exit_code == 2 or cmd is None:
+        return None
+    what = "explain it" if record.counterexample else "check it again"
+    return f"{what}: {cmd}"
+
+
 def _time(record: EntryRecord) -> str:
     return "cached" if record.cached else f"{record.seconds:.2f} s"
 
@@ -121,11 +139,14 @@ def render_table(summary) -> str:
         lines.append("broken on purpose, caught with these counterexamples:")
         for name, text in caught:
             lines.append(f"  {name}: {text}")
-    problems = [(r.label, problem_text(r)) for r in summary.records if not r.ok]
+    problems = [r for r in summary.records if not r.ok]
     if problems:
         lines.append("")
-        for name, text in problems:
-            lines.append(f"{name}: {text}")
+        for r in problems:
+            lines.append(f"{r.label}: {problem_text(r)}")
+            step = next_step(r)
+            if step:
+                lines.append(f"  {step}")
     lines.append("")
     lines.append(headline(summary))
     return "\n".join(lines)
@@ -147,7 +168,7 @@ def render_json(summary) -> dict[str, Any]:
             "sources": r.sources, "file_hashes": r.file_hashes,
             "design_hash": r.design_hash, "cache_key": r.key,
             "counterexample": r.counterexample, "error": r.error,
-            "same_as": r.same_as,
+            "same_as": r.same_as, "reproduce": command_text(r),
         })
     return {"format": JSON_FORMAT, "tool_version": summary.tool_version,
             "manifest": summary.manifest, "ok": summary.ok, "exit_code": summary.exit_code,
@@ -230,6 +251,14 @@ def _md(text: str) -> str:
     return str(text).replace("\\", "\\\\").replace("|", "\\|").replace("\n", " ")
 
 
+def _code_span(text: str) -> str:
+    """``text`` as a Markdown code span, fenced with more backticks than it holds in a row."""
+    longest = max((len(m) for m in re.findall(r"`+", text)), default=0)
+    fence = "`" * (longest + 1)
+    pad = " " if text.startswith("`") or text.endswith("`") else ""
+    return f"{fence}{pad}{text.replace(chr(10), ' ')}{pad}{fence}"
+
+
 def render_markdown(summary) -> str:
     """A short Markdown summary for a pull-request comment."""
     mark = "✅" if summary.ok else "❌"
@@ -257,6 +286,10 @@ def render_markdown(summary) -> str:
         lines.append("")
         for r in problems[:MARKDOWN_ROWS]:
             lines.append(f"- `{_md(r.label)}`: {_md(problem_text(r) or '')}")
+            step = next_step(r)
+            if step:
+                what, cmd = step.split(": ", 1)
+                lines.append(f"  {what}: {_code_span(cmd)}")
         if len(problems) > MARKDOWN_ROWS:
             lines.append(f"- ... and {len(problems) - MARKDOWN_ROWS} more")
     lines.append("")
