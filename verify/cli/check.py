@@ -35,6 +35,9 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
               show_default=True, metavar="BITS",
               help="Most input bits (all input ports together) the exhaustive engine takes.")
 @click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
+@click.option("--cluster", metavar="ADDRESS", help="Exhaustive engine only: split the input space "
+              "into shards run on this Dask cluster (tcp://scheduler:8786, or local:N for N "
+              "worker processes here) and merge them.")
 @verilog_options()
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
 @click.option("--log-dir", default="logs", show_default=True, metavar="DIR",
@@ -45,19 +48,28 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
-def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
-              params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
+def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, cluster,
+              top, params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
               no_diagnose):
+    from contextlib import nullcontext
+
     from verify.batch import check_files, exit_code
 
     try:
         check_report_paths(vcd_path, dot_path)
-        runs = check_files(
-            paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
-            defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
-            dot_path=dot_path, log_dir=None if no_log else log_dir, progress=_progress(as_json),
-            engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
-            exhaustive_limit=exhaustive_limit, shard=parse_shard(shard))
+        if cluster is not None and (engine != "exhaustive" or shard):
+            raise InputError("splits the exhaustive engine's input space: give --engine "
+                             "exhaustive without --shard (many designs: 'run --cluster')",
+                             option="cluster")
+        from verify.manifest.executors import open_executor
+        with open_executor(cluster) if cluster is not None else nullcontext() as executor:
+            runs = check_files(
+                paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
+                defines=parse_defines(defines), diagnose=not no_diagnose, vcd_path=vcd_path,
+                dot_path=dot_path, log_dir=None if no_log else log_dir,
+                progress=_progress(as_json), engine=engine, seed=seed, vectors=vectors,
+                timeout=timeout, require=require, exhaustive_limit=exhaustive_limit,
+                shard=parse_shard(shard), executor=executor)
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))

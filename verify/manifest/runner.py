@@ -32,7 +32,6 @@ from __future__ import annotations
 import itertools
 import re
 import time
-from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable, Iterable, Sequence
@@ -383,6 +382,14 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryR
         design_hash=result.design_hash, design=data["design"], checked_seconds=result.seconds)
 
 
+def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
+    """The record of a check no worker could finish: an error of that entry, never a verdict."""
+    return EntryRecord(name=entry.name, params=dict(point), label=label(entry.name, point),
+                       sources=list(entry.sources), spec=entry.spec, require=entry.require,
+                       deliberately_broken=entry.deliberately_broken, method=entry.method,
+                       verdict=Verdict.ERROR, error=f"the check did not finish: {why}")
+
+
 #: the manifest key of each Python API option an entry sets
 _OPTION_KEYS = {"top": "top", "params": "params", "defines": "defines",
                 "include_dirs": "include_dirs", "seed": "seed", "vectors": "vectors",
@@ -466,12 +473,16 @@ Progress = Callable[[str, int, int, "EntryRecord | None", str], None]
 
 def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cache: bool = True,
         cache_dir: str | Path | None = None, progress: Progress | None = None,
-        only: Iterable[str] | None = None, point: dict[str, int] | None = None) -> RunSummary:
+        only: Iterable[str] | None = None, point: dict[str, int] | None = None,
+        executor=None) -> RunSummary:
     """Check every entry of ``manifest`` at every parameter point.
 
     Records come back in manifest order whatever order workers finish in, so ``jobs`` changes the
     time taken, never the results. ``only`` limits the run to the named entries, ``point`` to one
-    parameter point of them.
+    parameter point of them. ``executor`` (``verify.manifest.executors``: a Dask cluster...) runs
+    the checks instead of a local pool of ``jobs`` processes; the cache is consulted here first,
+    so only checks it cannot answer are sent. A check whose workers all died is that entry's
+    error (exit 2), never a pass.
     """
     from verify.manifest.cache import CACHE_DIR, Cache
 
@@ -547,21 +558,34 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
         for j, e, p, f in twins.get(i, []):
             reuse(j, record, e, p, key, f, time.perf_counter(), same_as=records[i].label)
 
-    if jobs == 1 or len(pending) <= 1:
+    if executor is None and (jobs == 1 or len(pending) <= 1):
         for i, e, p, key, files in pending:
             if progress:
                 progress("start", done, total, None, label(e.name, p))
             store(i, check_entry(e, p, root), key, files)
-    else:
-        with ProcessPoolExecutor(max_workers=min(jobs, len(pending))) as pool:
-            futures = {pool.submit(check_entry, e, p, str(root)): (i, key, files)
+    elif pending:
+        from verify.manifest.executors import LocalPool, TaskLost
+        pool = executor if executor is not None else LocalPool(min(jobs, len(pending)))
+        try:
+            handles = {pool.submit(check_entry, e, p, str(root)): (i, e, p, key, files)
                        for i, e, p, key, files in pending}
-            for fut in as_completed(futures):
-                i, key, files = futures[fut]
-                store(i, fut.result(), key, files)
+            waiting = list(handles)
+            while waiting:
+                finished, waiting = pool.wait_any(waiting)
+                for h in finished:
+                    i, e, p, key, files = handles[h]
+                    try:
+                        record = pool.outcome(h)
+                    except TaskLost as lost:
+                        record = lost_record(e, p, str(lost))
+                    store(i, record, key, files)
+        finally:
+            if executor is None:
+                pool.close()
     final = [r for r in records if r is not None]
     counts: dict[str, int] = {}
     for r in final:
         counts[r.status.value] = counts.get(r.status.value, 0) + 1
-    return RunSummary(str(manifest.path), final, time.perf_counter() - started, jobs, use_cache,
+    workers = executor.workers if executor is not None else jobs
+    return RunSummary(str(manifest.path), final, time.perf_counter() - started, workers, use_cache,
                       counts=counts, warnings=warnings)
