@@ -143,7 +143,9 @@ class DaskCluster(Executor):
                                  f"address such as tcp://scheduler:8786", option="cluster")
             self._cluster = LocalCluster(n_workers=int(n), processes=True, threads_per_worker=1,
                                          host="127.0.0.1", dashboard_address=None,
-                                         silence_logs=logging.ERROR)
+                                         silence_logs=logging.ERROR,
+                                         # the scheduler's health routes: any free loopback port
+                                         scheduler_kwargs={"dashboard_address": "127.0.0.1:0"})
             self.client = Client(self._cluster)
             self.where = f"a local Dask cluster of {n} worker processes"
         else:
