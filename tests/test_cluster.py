@@ -278,3 +278,10 @@ def test_cli_check_and_run_on_a_local_cluster(designs, capsys):
     split = capsys.readouterr().out
     assert '"verdict": "exhaustive"' in local and '"verdict": "exhaustive"' in split
     assert run_command(["run", str(designs), "--no-cache", "-q", "--cluster", "local:2"]) == 0
+
+
+def test_a_worker_that_cannot_see_the_manifest_folder_says_so(designs, tmp_path):
+    entry = runner.load_manifest(designs).entries[0]
+    record = runner.check_entry_on_worker(entry, {}, str(tmp_path / "not-shared"))
+    assert record.verdict is Verdict.ERROR and record.exit_code == 2
+    assert "cannot see the manifest's folder" in record.error

@@ -242,11 +242,11 @@ def check_many(designs: Iterable[Netlist | str | Path], spec=None, *, engine: st
     """
     from verify.check import ENGINE_NAMES, _check_options
     from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT
-    from verify.manifest.executors import InProcess, TaskLost, open_executor
-
     if engine not in ENGINE_NAMES:
         raise InputError(f"unknown engine '{engine}' (choose from {', '.join(ENGINE_NAMES)})",
                          option="engine")
+    if executor is None and (isinstance(jobs, bool) or not isinstance(jobs, int) or jobs < 1):
+        raise InputError(f"must be a whole number >= 1, got {jobs!r}", option="jobs")
     for bad in ("shard", "progress"):
         if check_options.get(bad) is not None:
             raise InputError("is not taken by check_many", option=bad)
@@ -254,7 +254,13 @@ def check_many(designs: Iterable[Netlist | str | Path], spec=None, *, engine: st
                    check_options.get("timeout", DEFAULT_TIMEOUT),
                    check_options.get("exhaustive_limit", DEFAULT_EXHAUSTIVE_BITS))
     options = dict(check_options, engine=engine)
-    shipped = _shipped_spec(spec)
+    # checked here, when called; the work starts when the first result is asked for
+    return _stream(designs, _shipped_spec(spec), options, jobs, executor)
+
+
+def _stream(designs, shipped, options, jobs, executor) -> Iterator[BatchCheck]:
+    from verify.manifest.executors import InProcess, TaskLost, open_executor
+
     pool = executor if executor is not None else open_executor(jobs=jobs)
     local = isinstance(pool, InProcess)
     window = 1 if local else max(2, 4 * pool.workers)

@@ -143,7 +143,7 @@ class DaskCluster(Executor):
                                  f"address such as tcp://scheduler:8786", option="cluster")
             self._cluster = LocalCluster(n_workers=int(n), processes=True, threads_per_worker=1,
                                          host="127.0.0.1", dashboard_address=None,
-                                         silence_logs=logging.ERROR,
+                                         silence_logs=logging.CRITICAL,
                                          # the scheduler's health routes: any free loopback port
                                          scheduler_kwargs={"dashboard_address": "127.0.0.1:0"})
             self.client = Client(self._cluster)
@@ -207,6 +207,27 @@ class DaskCluster(Executor):
             self.client.close()
         if self._cluster is not None:
             self._cluster.close()
+
+
+def each_done(executor: Executor, tasks: Iterable[tuple[Any, Callable, tuple]]):
+    """Submit every (tag, fn, args) and yield (tag, value, None) as each finishes, or
+    (tag, None, why) for one no worker could finish. Tasks still running when the caller stops
+    early are cancelled."""
+    handles = {executor.submit(fn, *args): tag for tag, fn, args in tasks}
+    waiting = list(handles)
+    try:
+        while waiting:
+            finished, waiting = executor.wait_any(waiting)
+            for h in finished:
+                try:
+                    value = executor.outcome(h)
+                except TaskLost as lost:
+                    yield handles[h], None, str(lost)
+                    continue
+                yield handles[h], value, None
+    finally:
+        if waiting:
+            executor.cancel(waiting)
 
 
 def open_executor(cluster: str | None = None, jobs: int = 1) -> Executor:

@@ -390,6 +390,17 @@ def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
                        verdict=Verdict.ERROR, error=f"the check did not finish: {why}")
 
 
+def check_entry_on_worker(entry: Entry, point: dict[str, int], root: str) -> EntryRecord:
+    """``check_entry`` in a worker that may be on another machine: the manifest's folder must be
+    at the same path there (a shared filesystem); if it is not, that is said, not "no such file"."""
+    if not Path(root).is_dir():
+        import socket
+        return lost_record(entry, point, f"the worker on {socket.gethostname()} cannot see the "
+                           f"manifest's folder {root} (run --cluster needs it at the same path on "
+                           f"every worker, e.g. a shared filesystem)")
+    return check_entry(entry, point, root)
+
+
 #: the manifest key of each Python API option an entry sets
 _OPTION_KEYS = {"top": "top", "params": "params", "defines": "defines",
                 "include_dirs": "include_dirs", "seed": "seed", "vectors": "vectors",
@@ -564,21 +575,13 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
                 progress("start", done, total, None, label(e.name, p))
             store(i, check_entry(e, p, root), key, files)
     elif pending:
-        from verify.manifest.executors import LocalPool, TaskLost
+        from verify.manifest.executors import LocalPool, each_done
         pool = executor if executor is not None else LocalPool(min(jobs, len(pending)))
         try:
-            handles = {pool.submit(check_entry, e, p, str(root)): (i, e, p, key, files)
-                       for i, e, p, key, files in pending}
-            waiting = list(handles)
-            while waiting:
-                finished, waiting = pool.wait_any(waiting)
-                for h in finished:
-                    i, e, p, key, files = handles[h]
-                    try:
-                        record = pool.outcome(h)
-                    except TaskLost as lost:
-                        record = lost_record(e, p, str(lost))
-                    store(i, record, key, files)
+            tasks = [((i, e, p, key, files), check_entry_on_worker, (e, p, str(root)))
+                     for i, e, p, key, files in pending]
+            for (i, e, p, key, files), record, lost in each_done(pool, tasks):
+                store(i, record if lost is None else lost_record(e, p, lost), key, files)
         finally:
             if executor is None:
                 pool.close()

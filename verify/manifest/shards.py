@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import json
 import time
+from contextlib import closing
 from pathlib import Path
 from typing import Any, Iterable
 
@@ -246,7 +247,7 @@ def check_split(design, spec, executor, *, shards: int | None = None, require="t
     from verify.check import check, resolve_spec
     from verify.engines import DEFAULT_EXHAUSTIVE_BITS
     from verify.formats import json_netlist
-    from verify.manifest.executors import TaskLost
+    from verify.manifest.executors import each_done
     from verify.model.result import (CheckResult, Counterexample, EngineOutcome, Require,
                                      Verdict)
 
@@ -260,26 +261,22 @@ def check_split(design, spec, executor, *, shards: int | None = None, require="t
     shipped = None if the_spec.inferred else the_spec.source
     text = json_netlist.dumps(design)
     started = time.perf_counter()
-    handles = {executor.submit(_shard_task, text, design.origin, shipped, (k, count), options): k
-               for k in range(1, count + 1)}
     items: dict[int, dict[str, Any]] = {}
     lost: list[str] = []
-    waiting = list(handles)
     total = 1 << bits
-    while waiting:
-        finished, waiting = executor.wait_any(waiting)
-        for h in finished:
-            k = handles[h]
-            try:
-                items[k] = executor.outcome(h)
-            except TaskLost as e:
-                lost.append(f"shard {k}/{count}: {e}")
-        if progress:
-            progress("exhaustive", sum(i["shard"]["vectors"] for i in items.values()), total)
-        failed = [k for k, i in items.items() if i["verdict"] == "fail"]
-        if failed and waiting and all(j in items for j in range(1, min(failed))):
-            executor.cancel(waiting)  # the first failing vector is in shard min(failed)
-            waiting = []
+    tasks = [(k, _shard_task, (text, design.origin, shipped, (k, count), options))
+             for k in range(1, count + 1)]
+    with closing(each_done(executor, tasks)) as results:
+        for k, item, why in results:
+            if why is not None:
+                lost.append(f"shard {k}/{count}: {why}")
+                continue
+            items[k] = item
+            if progress:
+                progress("exhaustive", sum(i["shard"]["vectors"] for i in items.values()), total)
+            failed = [j for j, i in items.items() if i["verdict"] == "fail"]
+            if failed and all(j in items for j in range(1, min(failed))):
+                break  # the first failing vector is in shard min(failed): cancel the rest
     merged = merge_results([(f"shard {k}/{count}", items[k]) for k in sorted(items)]) if items \
         else None
     verdict = Verdict(merged["verdict"]) if merged else Verdict.UNDECIDED
