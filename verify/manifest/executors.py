@@ -28,6 +28,7 @@ from __future__ import annotations
 
 import concurrent.futures as cf
 import logging
+import uuid
 from typing import Any, Callable, Iterable
 
 from verify.errors import InputError
@@ -123,6 +124,22 @@ class LocalPool(Executor):
         self._pool.shutdown(wait=True, cancel_futures=True)
 
 
+def _in_dask_worker(fn, *args):
+    """Run a task in a Dask worker. The worker's own threads use the ``random`` module; when
+    that happens while hypothesis shrinks a counterexample, hypothesis warns that the strategy
+    used ``random``; it is about the worker's threads, not the check, and is dropped here (the
+    shrunk vector is re-checked against the spec either way)."""
+    import warnings
+    with warnings.catch_warnings():
+        try:
+            from hypothesis.errors import HypothesisDeprecationWarning
+            warnings.filterwarnings("ignore", message=r"Do not use the `random` module",
+                                    category=HypothesisDeprecationWarning)
+        except ImportError:  # pragma: no cover - hypothesis is a dependency
+            pass
+        return fn(*args)
+
+
 class DaskCluster(Executor):
     """Tasks on a Dask cluster: ``address`` of a running scheduler, or ``local:N`` for a cluster
     of N single-threaded worker processes on this machine (loopback only, no dashboard)."""
@@ -179,8 +196,9 @@ class DaskCluster(Executor):
         return self
 
     def submit(self, fn, *args):
-        # pure=False: two equal designs are still two tasks, each reported in its own place
-        return self.client.submit(fn, *args, pure=False, retries=self.retries)
+        # a fresh key: two equal designs are still two tasks, each reported in its own place
+        key = f"{getattr(fn, '__name__', 'task')}-{uuid.uuid4().hex}"
+        return self.client.submit(_in_dask_worker, fn, *args, key=key, retries=self.retries)
 
     def wait_any(self, handles):
         from distributed import wait
