@@ -26,7 +26,7 @@ from tests.test_shards import one_wrong_vector  # noqa: E402
 from verify.batch import check_files, check_many  # noqa: E402
 from verify.cli.main import run_command  # noqa: E402
 from verify.library.architectures import generate  # noqa: E402
-from verify.manifest import runner  # noqa: E402
+from verify.manifest import remote, runner  # noqa: E402
 from verify.manifest.executors import DaskCluster, LocalPool  # noqa: E402
 from verify.manifest.shards import check_split  # noqa: E402
 from verify.model.result import Verdict  # noqa: E402
@@ -280,8 +280,43 @@ def test_cli_check_and_run_on_a_local_cluster(designs, capsys):
     assert run_command(["run", str(designs), "--no-cache", "-q", "--cluster", "local:2"]) == 0
 
 
-def test_a_worker_that_cannot_see_the_manifest_folder_says_so(designs, tmp_path):
-    entry = runner.load_manifest(designs).entries[0]
-    record = runner.check_entry_on_worker(entry, {}, str(tmp_path / "not-shared"))
-    assert record.verdict is Verdict.ERROR and record.exit_code == 2
-    assert "cannot see the manifest's folder" in record.error
+class _Elsewhere(DaskCluster):
+    """Workers on machines without the checkout: every task is told the manifest's folder is at
+    a path that does not exist there."""
+
+    def __init__(self, client):
+        self.__dict__.update(DaskCluster.from_client(client).__dict__)
+        self.shipped = 0
+
+    def submit(self, fn, *args):
+        if fn is remote.check_entry_on_worker:
+            self.shipped += len(args) > 3
+            args = (args[0], args[1], "/nonexistent/checkout", *args[3:])
+        return super().submit(fn, *args)
+
+
+def test_workers_without_the_checkout_get_the_designs_and_the_same_results(client, designs,
+                                                                             tmp_path, local):
+    elsewhere = _Elsewhere(client)
+    summary = runner.run(designs, use_cache=False, cache_dir=tmp_path / "cache-elsewhere",
+                         executor=elsewhere)
+    assert elsewhere.shipped == len(local.records)  # every design went as JSON netlist text
+    assert [comparable(r) for r in summary.records] == [comparable(r) for r in local.records]
+    # the origin is where the design was read here, as in a local run (not a worker's path)
+    assert all(r.design["origin"].startswith(str(designs.parent)) for r in summary.records)
+    assert summary.exit_code == 0
+
+
+def test_a_design_read_here_for_remote_workers_reports_bad_input_as_a_local_run(client, tmp_path):
+    shutil.copy(DESIGNS / "larkspur_add8_ripple.json", tmp_path / "good.json")
+    (tmp_path / "bad.v").write_text("module bad(input a, output y);\n  assign y = a &;\nendmodule\n",
+                                    encoding="utf-8")
+    (tmp_path / "verify.toml").write_text(
+        '[[design]]\nname = "good"\nsources = ["good.json"]\nspec = "{cout, sum} = a + b + cin"\n'
+        '[[design]]\nname = "bad"\nsources = ["bad.v"]\nspec = "y = a"\n', encoding="utf-8")
+    here = runner.run(tmp_path / "verify.toml", use_cache=False, cache_dir=tmp_path / "c1")
+    away = runner.run(tmp_path / "verify.toml", use_cache=False, cache_dir=tmp_path / "c2",
+                      executor=_Elsewhere(client))
+    assert [r.verdict for r in here.records] == [Verdict.EXHAUSTIVE, Verdict.ERROR]
+    assert [comparable(r) for r in away.records] == [comparable(r) for r in here.records]
+    assert "bad.v:2" in away.records[1].error and away.exit_code == here.exit_code == 2

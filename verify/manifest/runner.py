@@ -343,38 +343,55 @@ def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dic
     return make_key(files, point, entry.spec, entry.options()), files
 
 
-def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryRecord:
+def load_entry(entry: Entry, point: dict[str, int], root: str | Path):
+    """The design of one entry at one parameter point, read from the manifest's folder."""
+    from verify.formats import load
+    root = Path(root)
+    return load([root / f for f in entry.sources], top=entry.top, params=point or None,
+                include_dirs=[str(root / d) for d in entry.include_dirs],
+                defines=dict(entry.defines) or None)
+
+
+def _base(entry: Entry, point: dict[str, int]) -> dict[str, Any]:
+    return dict(name=entry.name, params=dict(point), label=label(entry.name, point),
+                sources=list(entry.sources), spec=entry.spec, require=entry.require,
+                deliberately_broken=entry.deliberately_broken, method=entry.method)
+
+
+def error_record(entry: Entry, point: dict[str, int], e: InputError, seconds: float) -> EntryRecord:
+    """The record of an entry whose design or manifest values are bad input."""
+    fault = manifest_fault(e)
+    return EntryRecord(**_base(entry, point), verdict=Verdict.ERROR,
+                       error=str(e) if fault is None else entry_error(entry, *fault),
+                       error_key=fault and fault[0], error_detail=fault and fault[1],
+                       checked_seconds=seconds)
+
+
+def check_entry(entry: Entry, point: dict[str, int], root: str | Path,
+                design=None) -> EntryRecord:
     """Load and check one entry at one parameter point; a record for the reports.
 
     Runs in worker processes: takes and returns picklable values. Bad input becomes a record
-    with verdict ``error``; anything else escaping is a bug and propagates.
+    with verdict ``error``; anything else escaping is a bug and propagates. ``design``: the
+    entry's design, already read (elsewhere) from the manifest's folder.
     """
     from verify.check import check
     from verify.engines import DEFAULT_EXHAUSTIVE_BITS
-    from verify.formats import load
 
     root = Path(root)
     started = time.perf_counter()
-    _forget_stale_trees(entry, root)
-    base = dict(name=entry.name, params=dict(point), label=label(entry.name, point),
-                sources=list(entry.sources), spec=entry.spec, require=entry.require,
-                deliberately_broken=entry.deliberately_broken, method=entry.method)
     try:
-        design = load([root / f for f in entry.sources], top=entry.top, params=point or None,
-                      include_dirs=[str(root / d) for d in entry.include_dirs],
-                      defines=dict(entry.defines) or None)
+        if design is None:
+            _forget_stale_trees(entry, root)
+            design = load_entry(entry, point, root)
         result = check(design, entry.spec, engine=entry.method, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.time_limit, require=entry.require,
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
     except InputError as e:
-        fault = manifest_fault(e)
-        return EntryRecord(**base, verdict=Verdict.ERROR,
-                           error=str(e) if fault is None else entry_error(entry, *fault),
-                           error_key=fault and fault[0], error_detail=fault and fault[1],
-                           checked_seconds=time.perf_counter() - started)
+        return error_record(entry, point, e, time.perf_counter() - started)
     data = result.to_json()
     return EntryRecord(
-        **base, verdict=result.verdict,
+        **_base(entry, point), verdict=result.verdict,
         engines=[{"engine": e["engine"], "status": e["status"], "seconds": e["seconds"],
                   "evidence": e["evidence"], **({"vectors": e["vectors"]} if "vectors" in e else {})}
                  for e in data["engines"]],
@@ -388,17 +405,6 @@ def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
                        sources=list(entry.sources), spec=entry.spec, require=entry.require,
                        deliberately_broken=entry.deliberately_broken, method=entry.method,
                        verdict=Verdict.ERROR, error=f"the check did not finish: {why}")
-
-
-def check_entry_on_worker(entry: Entry, point: dict[str, int], root: str) -> EntryRecord:
-    """``check_entry`` in a worker that may be on another machine: the manifest's folder must be
-    at the same path there (a shared filesystem); if it is not, that is said, not "no such file"."""
-    if not Path(root).is_dir():
-        import socket
-        return lost_record(entry, point, f"the worker on {socket.gethostname()} cannot see the "
-                           f"manifest's folder {root} (run --cluster needs it at the same path on "
-                           f"every worker, e.g. a shared filesystem)")
-    return check_entry(entry, point, root)
 
 
 #: the manifest key of each Python API option an entry sets
@@ -575,13 +581,11 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
                 progress("start", done, total, None, label(e.name, p))
             store(i, check_entry(e, p, root), key, files)
     elif pending:
-        from verify.manifest.executors import LocalPool, each_done
+        from verify.manifest.executors import LocalPool
+        from verify.manifest.remote import check_pending
         pool = executor if executor is not None else LocalPool(min(jobs, len(pending)))
         try:
-            tasks = [((i, e, p, key, files), check_entry_on_worker, (e, p, str(root)))
-                     for i, e, p, key, files in pending]
-            for (i, e, p, key, files), record, lost in each_done(pool, tasks):
-                store(i, record if lost is None else lost_record(e, p, lost), key, files)
+            check_pending(pool, pending, root, store)
         finally:
             if executor is None:
                 pool.close()
