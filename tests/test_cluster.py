@@ -320,3 +320,13 @@ def test_a_design_read_here_for_remote_workers_reports_bad_input_as_a_local_run(
     assert [r.verdict for r in here.records] == [Verdict.EXHAUSTIVE, Verdict.ERROR]
     assert [comparable(r) for r in away.records] == [comparable(r) for r in here.records]
     assert "bad.v:2" in away.records[1].error and away.exit_code == here.exit_code == 2
+
+
+@pytest.mark.parametrize("options,option", [({"engine": "guess"}, "engine"), ({"jobs": 0}, "jobs"),
+                                            ({"timeout": -1}, "timeout"),
+                                            ({"shard": (1, 2)}, "shard")])
+def test_check_many_refuses_bad_options_when_called(options, option):
+    from verify.errors import InputError
+    with pytest.raises(InputError) as caught:
+        check_many([generate("ripple", 2)], **options)  # not iterated: refused at the call
+    assert caught.value.option == option

@@ -401,10 +401,8 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path,
 
 def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
     """The record of a check no worker could finish: an error of that entry, never a verdict."""
-    return EntryRecord(name=entry.name, params=dict(point), label=label(entry.name, point),
-                       sources=list(entry.sources), spec=entry.spec, require=entry.require,
-                       deliberately_broken=entry.deliberately_broken, method=entry.method,
-                       verdict=Verdict.ERROR, error=f"the check did not finish: {why}")
+    return EntryRecord(**_base(entry, point), verdict=Verdict.ERROR,
+                       error=f"the check did not finish: {why}")
 
 
 #: the manifest key of each Python API option an entry sets
