@@ -16,7 +16,8 @@ from verify.model.result import CheckResult, Verdict  # noqa: E402
 from verify.formats import load  # noqa: E402
 # Bound after the submodule is imported, so that ``verify.check`` is the function, not the module.
 from verify.check import check  # noqa: E402
+from verify.batch import BatchCheck, check_many  # noqa: E402
 
 
-__all__ = ["load", "check", "Netlist", "Gate", "Port", "CheckResult", "Verdict", "InputError",
+__all__ = ["load", "check", "check_many", "BatchCheck", "Netlist", "Gate", "Port", "CheckResult", "Verdict", "InputError",
            "__version__"]

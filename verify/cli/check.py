@@ -35,6 +35,9 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
               show_default=True, metavar="BITS",
               help="Most input bits (all input ports together) the exhaustive engine takes.")
 @click.option("--shard", metavar="K/N", help="Exhaustive engine only: cover the K-th of N parts.")
+@click.option("--cluster", metavar="ADDRESS", help="Exhaustive engine only: split the input space "
+              "into shards run on this Dask cluster (tcp://scheduler:8786, or local:N for N "
+              "worker processes here) and merge them.")
 @verilog_options()
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object (a list for a sweep).")
 @click.option("--recursive", "-r", is_flag=True, help="With a folder: read its subfolders too.")
@@ -54,9 +57,11 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--delays", metavar="MODEL", help="Delay model for --settle-within: 'unit' (the "
               "default) or a TOML delay table.")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
-def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
-              params, include_dirs, defines, cells, as_json, recursive, log_dir, no_log, vcd_path,
-              dot_path, no_diagnose, settle_within, delays, quiet):
+def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, cluster,
+              top, params, include_dirs, defines, cells, as_json, recursive, log_dir, no_log,
+              vcd_path, dot_path, no_diagnose, settle_within, delays, quiet):
+    from contextlib import nullcontext
+
     from verify.batch import check_files, exit_code, project_log_dir
 
     if no_log:
@@ -69,13 +74,19 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
     bar = _progress(as_json, quiet)
     try:
         check_report_paths(vcd_path, dot_path)
-        runs = check_files(
-            paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
-            defines=parse_defines(defines), cells=cells, diagnose=not no_diagnose, vcd_path=vcd_path,
-            dot_path=dot_path, log_dir=log_dir, recursive=recursive, progress=bar,
-            engine=engine, seed=seed, vectors=vectors, timeout=timeout, require=require,
-            exhaustive_limit=exhaustive_limit, shard=parse_shard(shard),
-            settle_within=settle_within, delays=delays)
+        if cluster is not None and (engine != "exhaustive" or shard):
+            raise InputError("splits the exhaustive engine's input space: give --engine "
+                             "exhaustive without --shard (many designs: 'run --cluster')",
+                             option="cluster")
+        from verify.manifest.executors import open_executor
+        with open_executor(cluster) if cluster is not None else nullcontext() as executor:
+            runs = check_files(
+                paths, spec, params=parse_params(params), top=top, include_dirs=include_dirs,
+                defines=parse_defines(defines), cells=cells, diagnose=not no_diagnose,
+                vcd_path=vcd_path, dot_path=dot_path, log_dir=log_dir, recursive=recursive,
+                progress=bar, engine=engine, seed=seed, vectors=vectors, timeout=timeout,
+                require=require, exhaustive_limit=exhaustive_limit, shard=parse_shard(shard),
+                settle_within=settle_within, delays=delays, executor=executor)
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))

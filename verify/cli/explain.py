@@ -11,6 +11,7 @@ import json
 
 import click
 
+from verify.cli.options import check_report_paths, parse_defines, single_point, verilog_options
 from verify.errors import InputError
 
 
@@ -29,41 +30,31 @@ from verify.errors import InputError
               help="Vectors simulated to rank the suspects.")
 @click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
               help="Seed of the vectors that rank the suspects (and of the check without --input).")
-@click.option("--top", "top_module", help="Verilog: the top module.")
-@click.option("--param", "params", multiple=True, metavar="NAME=V",
-              help="Verilog: override a parameter.")
-@click.option("-I", "include_dirs", multiple=True, metavar="DIR", help="Verilog include folder.")
-@click.option("-D", "defines", multiple=True, metavar="NAME[=VALUE]", help="Verilog define.")
+@verilog_options(sweep=False)
 @click.option("--json", "as_json", is_flag=True, help="Print one JSON object.")
-def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top_module, params,
-                include_dirs, defines, as_json):
+def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top, params,
+                include_dirs, defines, cells, as_json):
     """Show every bit's expected and actual sum and carry for one vector, the suspect gates and
     the path along which the first wrong value travels."""
     try:
-        return _explain(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top_module,
-                        params, include_dirs, defines, as_json)
+        return _explain(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top,
+                        params, include_dirs, defines, cells, as_json)
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
         raise
 
 
-def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, top_module, params,
-             include_dirs, defines, as_json) -> int:
+def _explain(paths, spec_text, input_text, vcd_path, dot_path, vectors, seed, top, params,
+             include_dirs, defines, cells, as_json) -> int:
     from verify.diagnosis import explain as diagnose
     from verify.check import check, resolve_spec
-    from verify.cli.options import check_report_paths, parse_defines, parse_params
     from verify.formats import load
     from verify.render.text import render_text as check_text
 
     check_report_paths(vcd_path, dot_path)
-    point = {}
-    for name, values in parse_params(params).items():
-        if len(values) != 1:
-            raise InputError(f"--param {name}: explain takes one value per parameter")
-        point[name] = values[0]
-    design = load(list(paths), top=top_module, params=point, include_dirs=include_dirs,
-                  defines=parse_defines(defines))
+    design = load(list(paths), top=top, params=single_point(params, "explain"),
+                  include_dirs=include_dirs, defines=parse_defines(defines), cells=cells)
     the_spec = resolve_spec(design, spec_text)
     checked = None
     if input_text is not None:

@@ -116,6 +116,8 @@ def _report_entry_errors(summary) -> None:
 @click.argument("manifest", required=False, metavar="[MANIFEST]")
 @click.option("--jobs", "-j", type=click.IntRange(1, 512), default=1, show_default=True,
               help="Checks run at once, in separate processes (results do not depend on it).")
+@click.option("--cluster", metavar="ADDRESS", help="Run the checks on this Dask cluster "
+              "(tcp://scheduler:8786, or local:N for N worker processes here) instead of --jobs.")
 @click.option("--junit", "junit_path", metavar="FILE", help="Write JUnit XML: a test case per "
               "design and parameter value.")
 @click.option("--json", "json_path", metavar="FILE", help="Write the JSON summary ('-' prints it "
@@ -131,8 +133,8 @@ def _report_entry_errors(summary) -> None:
 @click.option("--only", "only", multiple=True, metavar="NAME", help="Check only this design "
               "(repeatable).")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
-def run_cmd(manifest, jobs, junit_path, json_path, md_path, html_path, no_cache, cache_dir, only,
-            quiet):
+def run_cmd(manifest, jobs, cluster, junit_path, json_path, md_path, html_path, no_cache,
+            cache_dir, only, quiet):
     """Check every design of MANIFEST (default ./verify.toml) at every parameter value.
 
     Exit 0 when every entry meets its manifest, 1 when a result contradicts it (a counterexample,
@@ -149,19 +151,32 @@ def run_cmd(manifest, jobs, junit_path, json_path, md_path, html_path, no_cache,
                              (None if json_path == "-" else json_path, "JSON summary", "--json",
                               rb.JSON_FORMAT)])
         loaded = gate.load_manifest(manifest)
+        if cluster is not None and jobs != 1:
+            raise InputError("give --cluster or --jobs, not both (the cluster's workers run the "
+                             "checks)", option="cluster")
+        executor = None
+        if cluster is not None:
+            from verify.manifest.executors import open_executor
+            executor = open_executor(cluster)
     except InputError as e:
         if json_path == "-":
             click.echo(json.dumps({"ok": False, "exit_code": 2, "error": e.for_command_line(),
                                    "entries": []}))
         raise
     show = _progress(quiet or json_path == "-")
-    if show is None:
-        summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
-                           only=only or None, diagnose=bool(html_path))
-    else:
-        with show:
+    try:
+        if show is None:
             summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
-                               progress=show, only=only or None, diagnose=bool(html_path))
+                               only=only or None, executor=executor,
+                               diagnose=bool(html_path))
+        else:
+            with show:
+                summary = gate.run(loaded, jobs=jobs, use_cache=not no_cache, cache_dir=cache_dir,
+                                   progress=show, only=only or None, executor=executor,
+                               diagnose=bool(html_path))
+    finally:
+        if executor is not None:
+            executor.close()
     _report_entry_errors(summary)
     for note in summary.warnings:
         click.echo(f"warning: {note}", err=True)

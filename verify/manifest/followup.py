@@ -35,6 +35,8 @@ def _design_args(entry, point: dict[str, int], base: Path) -> list[str]:
         args += ["-I", os.path.normpath(base / d)]
     for name, value in entry.defines:
         args += ["-D", name if value is None else f"{name}={value}"]
+    for c in entry.cells:
+        args += ["--cells", os.path.normpath(base / c)]
     return args
 
 
@@ -66,14 +68,12 @@ def diagnose_entry(entry, point: dict[str, int], root: str | Path, record: Entry
         return None
     from verify.check import resolve_spec
     from verify.diagnosis.explain import analyse_failure, cone_text, waveform_text
-    from verify.formats import load
+    from verify.manifest.runner import load_entry
     from verify.model.result import Counterexample
 
     root = Path(root)
     try:
-        design = load([root / f for f in entry.sources], top=entry.top, params=point or None,
-                      include_dirs=[str(root / d) for d in entry.include_dirs],
-                      defines=dict(entry.defines) or None)
+        design = load_entry(entry, point, root)
         spec = resolve_spec(design, entry.spec)
         cex = Counterexample.from_json(record.counterexample)
         an, findings = analyse_failure(design, spec, cex)

@@ -36,7 +36,6 @@ from __future__ import annotations
 import itertools
 import re
 import time
-from concurrent.futures import ProcessPoolExecutor, as_completed
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable, Iterable, Sequence
@@ -387,27 +386,47 @@ def entry_key(entry: Entry, point: dict[str, int], root: Path) -> tuple[str, dic
     return make_key(files, point, entry.spec, entry.options()), files
 
 
-def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryRecord:
+def load_entry(entry: Entry, point: dict[str, int], root: str | Path):
+    """The design of one entry at one parameter point, read from the manifest's folder."""
+    from verify.formats import load
+    root = Path(root)
+    return load([root / f for f in entry.sources], top=entry.top, params=point or None,
+                include_dirs=[str(root / d) for d in entry.include_dirs],
+                cells=[root / c for c in entry.cells], defines=dict(entry.defines) or None)
+
+
+def _base(entry: Entry, point: dict[str, int]) -> dict[str, Any]:
+    return dict(name=entry.name, params=dict(point), label=label(entry.name, point),
+                sources=list(entry.sources), spec=entry.spec, require=entry.require,
+                deliberately_broken=entry.deliberately_broken, method=entry.method)
+
+
+def error_record(entry: Entry, point: dict[str, int], e: InputError, seconds: float) -> EntryRecord:
+    """The record of an entry whose design or manifest values are bad input."""
+    fault = manifest_fault(e)
+    return EntryRecord(**_base(entry, point), verdict=Verdict.ERROR,
+                       error=str(e) if fault is None else entry_error(entry, *fault),
+                       error_key=fault and fault[0], error_detail=fault and fault[1],
+                       checked_seconds=seconds)
+
+
+def check_entry(entry: Entry, point: dict[str, int], root: str | Path,
+                design=None) -> EntryRecord:
     """Load and check one entry at one parameter point; a record for the reports.
 
     Runs in worker processes: takes and returns picklable values. Bad input becomes a record
-    with verdict ``error``; anything else escaping is a bug and propagates.
+    with verdict ``error``; anything else escaping is a bug and propagates. ``design``: the
+    entry's design, already read (elsewhere) from the manifest's folder.
     """
     from verify.check import check
     from verify.engines import DEFAULT_EXHAUSTIVE_BITS
-    from verify.formats import load
 
     root = Path(root)
     started = time.perf_counter()
-    _forget_stale_trees(entry, root)
-    base = dict(name=entry.name, params=dict(point), label=label(entry.name, point),
-                sources=list(entry.sources), spec=entry.spec, require=entry.require,
-                deliberately_broken=entry.deliberately_broken, method=entry.method)
     try:
-        design = load([root / f for f in entry.sources], top=entry.top, params=point or None,
-                      include_dirs=[str(root / d) for d in entry.include_dirs],
-                      cells=[root / c for c in entry.cells],
-                      defines=dict(entry.defines) or None)
+        if design is None:
+            _forget_stale_trees(entry, root)
+            design = load_entry(entry, point, root)
         result = check(design, entry.spec, engine=entry.method, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.time_limit, require=entry.require,
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
@@ -415,19 +434,21 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> EntryR
                        delays=entry.delays if entry.delays in (None, "unit")
                        else str(root / entry.delays))
     except InputError as e:
-        fault = manifest_fault(e)
-        return EntryRecord(**base, verdict=Verdict.ERROR,
-                           error=str(e) if fault is None else entry_error(entry, *fault),
-                           error_key=fault and fault[0], error_detail=fault and fault[1],
-                           checked_seconds=time.perf_counter() - started)
+        return error_record(entry, point, e, time.perf_counter() - started)
     data = result.to_json()
     return EntryRecord(
-        **base, verdict=result.verdict,
+        **_base(entry, point), verdict=result.verdict,
         engines=[{"engine": e["engine"], "status": e["status"], "seconds": e["seconds"],
                   "evidence": e["evidence"], **({"vectors": e["vectors"]} if "vectors" in e else {})}
                  for e in data["engines"]],
         coverage=result.coverage, counterexample=data.get("counterexample"),
         design_hash=result.design_hash, design=data["design"], checked_seconds=result.seconds)
+
+
+def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
+    """The record of a check no worker could finish: an error of that entry, never a verdict."""
+    return EntryRecord(**_base(entry, point), verdict=Verdict.ERROR,
+                       error=f"the check did not finish: {why}")
 
 
 #: the manifest key of each Python API option an entry sets
@@ -514,13 +535,17 @@ Progress = Callable[[str, int, int, "EntryRecord | None", str], None]
 def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cache: bool = True,
         cache_dir: str | Path | None = None, progress: Progress | None = None,
         only: Iterable[str] | None = None, point: dict[str, int] | None = None,
-        diagnose: bool = False) -> RunSummary:
+        diagnose: bool = False, executor=None) -> RunSummary:
     """Check every entry of ``manifest`` at every parameter point.
 
     Records come back in manifest order whatever order workers finish in, so ``jobs`` changes the
     time taken, never the results. ``only`` limits the run to the named entries, ``point`` to one
     parameter point of them. Every record gets the command that reproduces it; ``diagnose``
     also attaches a diagnosis to each record with a counterexample (for the HTML report).
+    ``executor`` (``verify.manifest.executors``: a Dask cluster...) runs
+    the checks instead of a local pool of ``jobs`` processes; the cache is consulted here first,
+    so only checks it cannot answer are sent. A check whose workers all died is that entry's
+    error (exit 2), never a pass.
     """
     from verify.manifest import followup
     from verify.manifest.cache import CACHE_DIR, Cache
@@ -597,18 +622,20 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
         for j, e, p, f in twins.get(i, []):
             reuse(j, record, e, p, key, f, time.perf_counter(), same_as=records[i].label)
 
-    if jobs == 1 or len(pending) <= 1:
+    if executor is None and (jobs == 1 or len(pending) <= 1):
         for i, e, p, key, files in pending:
             if progress:
                 progress("start", done, total, None, label(e.name, p))
             store(i, check_entry(e, p, root), key, files)
-    else:
-        with ProcessPoolExecutor(max_workers=min(jobs, len(pending))) as pool:
-            futures = {pool.submit(check_entry, e, p, str(root)): (i, key, files)
-                       for i, e, p, key, files in pending}
-            for fut in as_completed(futures):
-                i, key, files = futures[fut]
-                store(i, fut.result(), key, files)
+    elif pending:
+        from verify.manifest.executors import LocalPool
+        from verify.manifest.remote import check_pending
+        pool = executor if executor is not None else LocalPool(min(jobs, len(pending)))
+        try:
+            check_pending(pool, pending, root, store)
+        finally:
+            if executor is None:
+                pool.close()
     final = [r for r in records if r is not None]
     for r, (e, p) in zip(final, work):
         r.reproduce = followup.reproduce_argv(e, p, r, manifest.path.parent)
@@ -617,5 +644,6 @@ def run(manifest: Manifest | str | Path | None = None, *, jobs: int = 1, use_cac
     counts: dict[str, int] = {}
     for r in final:
         counts[r.status.value] = counts.get(r.status.value, 0) + 1
-    return RunSummary(str(manifest.path), final, time.perf_counter() - started, jobs, use_cache,
+    workers = executor.workers if executor is not None else jobs
+    return RunSummary(str(manifest.path), final, time.perf_counter() - started, workers, use_cache,
                       counts=counts, warnings=warnings)

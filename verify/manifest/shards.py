@@ -18,6 +18,8 @@ refused as bad input (exit 2).
 from __future__ import annotations
 
 import json
+import time
+from contextlib import closing
 from pathlib import Path
 from typing import Any, Iterable
 
@@ -75,15 +77,25 @@ def _passed(item: dict[str, Any]) -> bool:
 
 def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
     """Merge shard results from JSON files; returns the merged result (see the module text)."""
-    from verify.engines.exhaustive import shard_range
-
-    shards: list[tuple[str, dict, dict]] = []  # (where, shard, item)
+    found: list[tuple[str, Any]] = []
     for p in paths:
         p = Path(p)
         items = _read(p)
         for n, item in enumerate(items):
-            where = f"{p}[{n}]" if len(items) > 1 else str(p)
-            shards.append((where, _shard_of(item, where), item))
+            found.append((f"{p}[{n}]" if len(items) > 1 else str(p), item))
+    if not found:
+        raise InputError("no shard files given")
+    return merge_results(found)
+
+
+def merge_results(items: Iterable[tuple[str, Any]]) -> dict[str, Any]:
+    """Merge shard results already in memory: (where it came from, the result's JSON form) pairs,
+    e.g. ``("shard 3/8", result.to_json())``. Same rules and same merged result as ``merge``."""
+    from verify.engines.exhaustive import shard_range
+
+    shards: list[tuple[str, dict, dict]] = []  # (where, shard, item)
+    for where, item in items:
+        shards.append((where, _shard_of(item, where), item))
     if not shards:
         raise InputError("no shard files given")
 
@@ -202,3 +214,100 @@ def render_text(merged: dict[str, Any]) -> str:
             if got != want:
                 lines.append(f"  {port}: expected {want} ({want:#x}), actual {got} ({got:#x})")
     return "\n".join(lines)
+
+
+# ---- splitting one exhaustive check over an executor's workers --------------------------------
+
+#: shards per worker: enough that a slow or lost worker holds up a small part of the space
+SHARDS_PER_WORKER = 4
+
+
+def _shard_task(text: str, origin: str | None, spec, shard: tuple[int, int],
+                options: dict[str, Any]) -> dict[str, Any]:
+    """A worker's task: one shard of the exhaustive engine over a JSON netlist; its JSON result."""
+    from dataclasses import replace
+
+    from verify.check import check
+    from verify.formats import json_netlist
+    design = replace(json_netlist.parse(text, origin or "<json>"), origin=origin)
+    return check(design, spec, engine="exhaustive", shard=shard, **options).to_json()
+
+
+def check_split(design, spec, executor, *, shards: int | None = None, require="tested",
+                progress=None, **options):
+    """The exhaustive check of ``design``, split into shards run on ``executor`` and merged by
+    ``merge_results``: the verdict and counterexample of one local exhaustive run.
+
+    ``shards`` defaults to ``SHARDS_PER_WORKER`` per worker, never more than the input space. A
+    shard no worker could finish is missing from the merge, so the verdict is ``undecided`` (or
+    ``fail`` if another shard found a counterexample). Once a shard fails and every shard before
+    it is done, the rest are cancelled: the first failing vector is then known. ``options`` are
+    those of ``verify.check`` (timeout applies to each shard).
+    """
+    from verify.check import check, resolve_spec
+    from verify.engines import DEFAULT_EXHAUSTIVE_BITS
+    from verify.formats import json_netlist
+    from verify.manifest.executors import each_done
+    from verify.model.result import (CheckResult, Counterexample, EngineOutcome, Require,
+                                     Verdict)
+
+    bits = design.input_width
+    the_spec = resolve_spec(design, spec)
+    if bits > options.get("exhaustive_limit", DEFAULT_EXHAUSTIVE_BITS) or bits == 0:
+        # nothing to split: the engine says why it does not run (or runs the one vector)
+        return check(design, the_spec, engine="exhaustive", require=require, **options)
+    count = shards or SHARDS_PER_WORKER * executor.workers
+    count = max(1, min(count, 1 << bits))
+    shipped = None if the_spec.inferred else the_spec.source
+    text = json_netlist.dumps(design)
+    started = time.perf_counter()
+    items: dict[int, dict[str, Any]] = {}
+    lost: list[str] = []
+    total = 1 << bits
+    tasks = [(k, _shard_task, (text, design.origin, shipped, (k, count), options))
+             for k in range(1, count + 1)]
+    with closing(each_done(executor, tasks)) as results:
+        for k, item, why in results:
+            if why is not None:
+                lost.append(f"shard {k}/{count}: {why}")
+                continue
+            items[k] = item
+            if progress:
+                progress("exhaustive", sum(i["shard"]["vectors"] for i in items.values()), total)
+            failed = [j for j, i in items.items() if i["verdict"] == "fail"]
+            if failed and all(j in items for j in range(1, min(failed))):
+                break  # the first failing vector is in shard min(failed): cancel the rest
+    merged = merge_results([(f"shard {k}/{count}", items[k]) for k in sorted(items)]) if items \
+        else None
+    verdict = Verdict(merged["verdict"]) if merged else Verdict.UNDECIDED
+    cex = found = None
+    if merged and merged.get("counterexample"):
+        cex = Counterexample.from_json(merged["counterexample"])
+        source = items[min(merged["shards"]["failed"])]
+        if source.get("found_counterexample"):
+            found = Counterexample.from_json(source["found_counterexample"])
+    status = {Verdict.EXHAUSTIVE: "pass", Verdict.FAIL: "fail"}.get(verdict, "undecided")
+    where = getattr(executor, "where", "workers")
+    if verdict is Verdict.FAIL:
+        k = min(merged["shards"]["failed"])
+        evidence = f"{items[k]['engines'][0]['evidence']} (shard {k}/{count}, on {where})"
+    else:
+        evidence = (merged["coverage"] if merged else f"no shard of {count} finished") + \
+            f" ({count} shards on {where})"
+    if lost:
+        evidence += f"; not finished: {'; '.join(lost)}"
+    vectors = sum(e.get("vectors") or 0 for i in items.values() for e in i["engines"])
+    outcome = EngineOutcome(
+        "exhaustive", status, time.perf_counter() - started, evidence, vectors=vectors,
+        counterexample=cex,
+        details={"input_bits": bits, "shards": merged["shards"] if merged else
+                 {"count": count, "present": [], "missing": list(range(1, count + 1))}})
+    return CheckResult(
+        design=design.name, design_hash=design.content_hash(),
+        ports={"inputs": {p.name: p.width for p in design.inputs},
+               "outputs": {p.name: p.width for p in design.outputs}},
+        gate_count=len(design.gates), spec=the_spec.text, spec_inferred=the_spec.inferred,
+        engines=[outcome], verdict=verdict,
+        require=require if isinstance(require, Require) else Require(require),
+        counterexample=cex, seconds=time.perf_counter() - started, origin=design.origin,
+        found_counterexample=found)
