@@ -7,7 +7,8 @@
                           spec="{cout, sum} = a + b + cin")
     assert result.ok, result.coverage
 
-``engine="auto"`` (the default) runs random vectors first, to find a bug fast, then the exhaustive
+``engine="auto"`` (the default) runs random vectors first (``vectors`` of them, default 20,000),
+to find a bug fast, then the exhaustive
 engine when the input bits fit its limit, else z3 within the time limit. If that last engine gives
 no answer, the verdict is undecided: passing random vectors never stands in for a proof.
 """
@@ -114,7 +115,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
 
     outcomes: list[EngineOutcome] = []
     if engine == "auto":
-        first = min(vectors, AUTO_RANDOM_VECTORS) if vectors else AUTO_RANDOM_VECTORS
+        first = vectors if vectors else AUTO_RANDOM_VECTORS  # --vectors sets this stage
         outcomes.append(_engine("random")(design, the_spec, options("random", vectors=first)))
         if outcomes[-1].status != "fail":
             final = "exhaustive" if design.input_width <= exhaustive_limit else "smt"

@@ -138,6 +138,8 @@ def load_manifest(path: str | Path | None = None) -> Manifest:
         raise InputError(f"cannot read the manifest: {e}", str(path)) from None
     try:
         data = _toml.loads(text)
+    except RecursionError:  # the TOML reader recurses once a nested array or table
+        raise InputError("arrays or tables nested too deep to read", str(path)) from None
     except _toml.TOMLDecodeError as e:
         msg = str(e)
         m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
