@@ -38,11 +38,8 @@ register(cli)
 
 
 def _bench():
-    path = Path(__file__).resolve().parent.parent / "benchmarks" / "bench_diagnose.py"
-    spec = importlib.util.spec_from_file_location("bench_diagnose", path)
-    mod = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(mod)
-    return mod
+    from tests.support import faults
+    return faults
 
 
 def _cex(design, spec, inputs) -> Counterexample:

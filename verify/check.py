@@ -77,13 +77,15 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
           vectors: int | None = None, timeout: float = DEFAULT_TIMEOUT,
           require: str | Require = Require.TESTED,
           exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS, shrink: bool = True,
-          shard: tuple[int, int] | None = None,
+          shard: tuple[int, int] | None = None, strength: int | None = None,
           progress: Callable[[str, int, int], None] | None = None) -> CheckResult:
     """Establish what can be established about ``design`` against ``spec``.
 
     ``spec`` is equation text, a ``verify.spec.Spec`` or None (inferred from port names).
     ``require="complete"`` makes a result that is only ``tested`` fail (exit code 3).
     ``shard=(k, n)`` limits the exhaustive engine to the k-th of n disjoint parts.
+    ``strength=N`` injects N single faults into copies of the design and reports in
+    ``extras["strength"]`` what fraction the same random vectors catch (an estimate, not a proof).
     Raises InputError for bad input; never returns a passing verdict no engine established.
     """
     started = time.perf_counter()
@@ -100,6 +102,9 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         if not (isinstance(k, int) and isinstance(n, int) and 1 <= k <= n):
             raise InputError(f"shard {k}/{n}: give K/N with 1 <= K <= N")
     _check_options(seed, vectors, timeout, exhaustive_limit)
+    if strength is not None and (not _whole(strength) or not 1 <= strength <= 100_000):
+        raise InputError(f"--strength must be a whole number of faults from 1 to 100,000, got "
+                         f"{strength!r}")
     if shard is not None and shard[1] > 1 << design.input_width:
         raise InputError(f"shard {shard[0]}/{shard[1]}: the input space of {design.name} has only "
                          f"2^{design.input_width} = {1 << design.input_width:,} vectors; give at "
@@ -137,6 +142,11 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         extras["shard"] = outcomes[0].details["shard"]
         if verdict is Verdict.EXHAUSTIVE and shard[1] > 1:
             verdict = Verdict.TESTED  # one part of the space: 'verify merge' gives the whole
+    sampled = [o for o in outcomes if o.engine == "random" and o.status == "pass"]
+    if strength and sampled:
+        from verify.engines.strength import estimate
+        extras["strength"] = estimate(design, the_spec, faults=strength, seed=seed,
+                                      vectors=sampled[0].vectors, time_limit=timeout)
     return CheckResult(
         design=design.name, design_hash=design.content_hash(),
         ports={"inputs": {p.name: p.width for p in design.inputs},

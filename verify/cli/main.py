@@ -157,7 +157,8 @@ def verilog_options(f):
 @click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
               help="Seed of the random engine.")
 @click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
-              "(default 200,000; auto runs 20,000 first).")
+              "(default 200,000; under auto, the random stage before the complete engine, "
+              "default 20,000). An input space that fits is simulated whole (exhaustive).")
 @click.option("--timeout", type=float, default=DEFAULT_TIMEOUT, show_default=True,
               help="Seconds an engine may take; past it the outcome is undecided.")
 @click.option("--require", type=click.Choice(["tested", "complete"]), default="tested",
@@ -176,9 +177,12 @@ def verilog_options(f):
 @click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
+@click.option("--strength", type=click.IntRange(1, 100_000), metavar="N",
+              help="After random vectors pass: inject N single faults into copies of the design "
+              "and report what fraction the same vectors catch (an estimate, not a proof).")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
               params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
-              no_diagnose):
+              no_diagnose, strength):
     """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
     from verify.diagnosis import explain as diagnose
     from verify.manifest import runlog as logbook
@@ -206,10 +210,13 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
                 result = check(design, the_spec, engine=engine, seed=seed, vectors=vectors,
                                timeout=timeout, require=require,
                                exhaustive_limit=exhaustive_limit, shard=shard_t,
-                               progress=_progress(as_json))
+                               strength=strength, progress=_progress(as_json))
                 lines = [] if no_diagnose else diagnose.attach(
                     result, design, the_spec, vcd_path=vcd_path, dot_path=dot_path,
                     log_dir=None if no_log else log_dir)
+                if "strength" in result.extras:
+                    from verify.engines.strength import describe
+                    lines = [*lines, "", *describe(result.extras["strength"])]
             except InputError as e:
                 if len(units) == 1 and len(sweep(sweep_params)) == 1:
                     return _input_error(e, as_json)

@@ -52,7 +52,7 @@ REQUIRES = ("complete", "tested")
 EXPECTS = ("pass", "fail")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "files", "spec", "top", "params", "require", "engine", "timeout", "expect",
-        "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
+        "include_dirs", "defines", "seed", "vectors", "exhaustive_limit", "strength")
 REQUIRED = ("name", "files", "spec")
 _VERILOG = (".v", ".sv", ".vh", ".svh")
 
@@ -77,6 +77,7 @@ class Entry:
     seed: int = 1
     vectors: int | None = None
     exhaustive_limit: int | None = None
+    strength: int | None = None  # faults injected to estimate a sample's strength
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
     #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
@@ -96,7 +97,8 @@ class Entry:
         """The options that decide the outcome (part of the cache key)."""
         return {"engine": self.engine, "require": self.require, "timeout": self.timeout,
                 "seed": self.seed, "vectors": self.vectors,
-                "exhaustive_limit": self.exhaustive_limit, "top": self.top,
+                "exhaustive_limit": self.exhaustive_limit, "strength": self.strength,
+                "top": self.top,
                 "include_dirs": list(self.include_dirs), "defines": dict(self.defines)}
 
 
@@ -297,7 +299,8 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         timeout=float(timeout), expect=choice("expect", EXPECTS, "pass"),
         include_dirs=tuple(include_dirs), defines=tuple(defines),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
-        exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
+        exhaustive_limit=whole("exhaustive_limit", 1, 40),
+        strength=whole("strength", 1, 100_000), where=where,
         key_where=tuple(key_where))
 
 
@@ -371,7 +374,8 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
                       defines=dict(entry.defines) or None)
         result = check(design, entry.spec, engine=entry.engine, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.timeout, require=entry.require,
-                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
+                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
+                       strength=entry.strength)
     except InputError as e:
         fault = manifest_fault(e)
         return {**base, "verdict": "error",
@@ -386,6 +390,7 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
                         for e in data["engines"]],
             "coverage": result.coverage, "counterexample": data.get("counterexample"),
             "design_hash": result.design_hash, "design": data["design"],
+            **({"strength": data["strength"]} if "strength" in data else {}),
             "checked_seconds": result.seconds}
 
 
