@@ -52,6 +52,19 @@ def resolve_spec(design: Netlist, spec=None):
     return spec
 
 
+def shard_binding(design: dict, spec: str, shard: dict) -> str:
+    """A content hash tying a shard result to its design (name, hash, ports), spec and range,
+    so that ``merge`` refuses a file whose name, port widths, spec or range was edited. Anyone
+    can recompute it: it catches edits and mix-ups, not a deliberate forgery."""
+    import hashlib
+    import json
+
+    data = {"design": {k: design.get(k) for k in ("name", "hash", "inputs", "outputs")},
+            "spec": spec,
+            "shard": {k: shard.get(k) for k in ("index", "count", "vectors", "first", "last")}}
+    return hashlib.sha256(json.dumps(data, sort_keys=True).encode()).hexdigest()
+
+
 def _whole(value) -> bool:
     return isinstance(value, int) and not isinstance(value, bool)
 
@@ -139,7 +152,12 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
             extras["found_counterexample"] = cex.to_json()
         cex = small
     if shard is not None and outcomes[0].details.get("shard"):
-        extras["shard"] = outcomes[0].details["shard"]
+        part = dict(outcomes[0].details["shard"])
+        part["binding"] = shard_binding(
+            {"name": design.name, "hash": design.content_hash(),
+             "inputs": {p.name: p.width for p in design.inputs},
+             "outputs": {p.name: p.width for p in design.outputs}}, the_spec.text, part)
+        extras["shard"] = part
         if verdict is Verdict.EXHAUSTIVE and shard[1] > 1:
             verdict = Verdict.TESTED  # one part of the space: 'verify merge' gives the whole
     sampled = [o for o in outcomes if o.engine == "random" and o.status == "pass"]

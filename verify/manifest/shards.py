@@ -12,7 +12,14 @@ gives:
 
 Shards of different designs (design hash), specs, parameter values or shard counts, a shard given
 twice, parts that overlap or do not match their index, and files that are not shard results are
-refused as bad input (exit 2).
+refused as bad input (exit 2). Each shard carries a binding hash over its design name, design
+hash, ports, spec and range (``verify.check.shard_binding``): a file whose name, port widths,
+spec or range was edited is refused.
+
+What a merge cannot do: tell a forged file from a real one. The files are plain JSON and the
+binding is a hash anyone can recompute; a merge checks that the shards are consistent with each
+other, not that the checks they report were run. Keep shard results where only your own jobs
+write them.
 """
 
 from __future__ import annotations
@@ -75,6 +82,7 @@ def _passed(item: dict[str, Any]) -> bool:
 
 def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
     """Merge shard results from JSON files; returns the merged result (see the module text)."""
+    from verify.check import shard_binding
     from verify.engines.exhaustive import shard_range
 
     shards: list[tuple[str, dict, dict]] = []  # (where, shard, item)
@@ -114,6 +122,10 @@ def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
         if (shard["first"], shard["last"], shard["vectors"]) != (lo, hi - 1, hi - lo):
             raise InputError(f"shard {k}/{count} covers vectors {shard['first']}..{shard['last']}, "
                              f"but shard {k} of {count} over 2^{bits} vectors is {lo}..{hi - 1}", where)
+        if shard.get("binding") != shard_binding(item["design"], item["spec"], shard):
+            raise InputError("the shard's binding hash does not match its design name, ports, "
+                             "spec or range: the file was edited, or made by another version",
+                             where)
     ordered = sorted(shards, key=lambda s: s[1]["first"])
     for (wa, a, _), (wb, b, _) in zip(ordered, ordered[1:]):
         if b["first"] <= a["last"]:
