@@ -564,6 +564,8 @@ def _local_changes(G: _Graph, base: list[int], k: int, required: int, care: int,
     downstream = {G.first_gate + gp for gp in G.cone(k)} | {k}
     ops = (g.op,) if g.op in ("and", "or", "xor", "nand", "nor", "xnor") else (
         ("and", "or", "xor") if g.op == "buf" else ())
+    like = _Likeness(G, ins)
+    fits: list[tuple[tuple, Change]] = []
     for op in ops:  # a forgotten input: one more net into the gate
         for other in range(2, len(G.nets)):
             if other in downstream or other in ins:
@@ -572,9 +574,9 @@ def _local_changes(G: _Graph, base: list[int], k: int, required: int, care: int,
             if gives(w):
                 what = (f"this {g.op} gate is missing an input: {G.nets[other]}" if op == g.op
                         else f"this buf should be an {op} with {G.nets[other]} as a second input")
-                if add(Change(what, "missing", Gate(op, (*g.inputs, G.nets[other]), g.output,
-                                                    g.source), word=w)):
-                    return out
+                fits.append(((0, like.distance(other, ins)), Change(
+                    what, "missing", Gate(op, (*g.inputs, G.nets[other]), g.output, g.source),
+                    word=w)))
     for pos in range(len(xs)):
         trial = list(xs)
         for other in range(len(G.nets)):  # not from its own fan-out: that would be a loop
@@ -589,12 +591,42 @@ def _local_changes(G: _Graph, base: list[int], k: int, required: int, care: int,
                             Gate(g.op, new_ins, g.output, g.source), word=w)
                 if other < 2:  # a constant input disables the gate: the least likely repair
                     consts.append(ch)
-                elif add(ch):
-                    return out
+                else:
+                    fits.append(((0, like.distance(other, [ins[pos]])), ch))
+    # nets most like the gate's own inputs first (another bit of the same kind of signal: the
+    # forgotten propagate bit, the neighbouring index), in the order they were found otherwise
+    fits.sort(key=lambda f: f[0])
+    for _, ch in fits:
+        if add(ch):
+            return out
     out.extend(consts)
     if stuck:
         out.append(stuck)
     return out[:max(limit, 1)]
+
+
+class _Likeness:
+    """How much a net looks like a gate's inputs: the same op driving it, inputs from the same
+    ports (by structure, not by name), then the distance in bit position."""
+
+    def __init__(self, G: _Graph, ins: list[int]):
+        self.G = G
+
+    def shape(self, k: int) -> tuple:
+        G = self.G
+        if k < G.first_gate:
+            return ("input", G.nets[k].split("[")[0])
+        g = G.gates[k - G.first_gate]
+        return (g.op, len(g.inputs), tuple(sorted({self._port(G.index[i]) for i in g.inputs})))
+
+    def _port(self, k: int) -> str:
+        G = self.G
+        return G.nets[k].split("[")[0] if 2 <= k < G.first_gate else "net"
+
+    def distance(self, other: int, ins) -> tuple:
+        mine = self.shape(other)
+        same = sum(self.shape(i) == mine for i in ins)
+        return (-same, other)
 
 
 def _why(s: Suspect, an: Analysis, nfail: int) -> str:
