@@ -385,7 +385,8 @@ def _rank(an: Analysis, top: int) -> None:
     picked = {c.net for c in chosen}
     listed = chosen + [s for s in first if s.net not in picked]
     # one entry a net, in the order of the scores printed beside them
-    an.suspects = sorted(listed, key=lambda s: (-round(s.score, 9), s.order))[:top]
+    an.suspects = sorted(listed, key=lambda s: -round(s.score, 9))[:top]  # stable: ties keep
+    # the ranking's own order (a plain reference function before a complement, then earlier)
     an.chosen = [c.net for c in chosen]
     an.remaining = fail if chosen else an.failing
     an.repaired = dict(zip(G.nets[2:], base[2:])) if chosen else {}
