@@ -98,7 +98,8 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     ``require="complete"`` makes a result that is only ``tested`` fail (exit code 3).
     ``shard=(k, n)`` limits the exhaustive engine to the k-th of n disjoint parts.
     ``strength=N`` injects N single faults into copies of the design and reports in
-    ``extras["strength"]`` what fraction the same random vectors catch (an estimate, not a proof).
+    ``extras["strength"]`` what fraction the same random vectors catch (an estimate, not a proof);
+    only when random vectors are the strongest evidence (a tested or undecided verdict).
     Raises InputError for bad input; never returns a passing verdict no engine established.
     """
     started = time.perf_counter()
@@ -135,7 +136,8 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     if engine == "auto":
         first = vectors if vectors else AUTO_RANDOM_VECTORS  # --vectors sets this stage
         outcomes.append(_engine("random")(design, the_spec, options("random", vectors=first)))
-        if outcomes[-1].status != "fail":
+        if outcomes[-1].status != "fail" and outcomes[-1].engine != "exhaustive":
+            # (the random stage simulated the whole space when it fitted its budget)
             final = "exhaustive" if design.input_width <= exhaustive_limit else "smt"
             outcomes.append(_engine(final)(design, the_spec, options(final)))
     else:
@@ -161,7 +163,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         if verdict is Verdict.EXHAUSTIVE and shard[1] > 1:
             verdict = Verdict.TESTED  # one part of the space: 'verify merge' gives the whole
     sampled = [o for o in outcomes if o.engine == "random" and o.status == "pass"]
-    if strength and sampled:
+    if strength and sampled and verdict in (Verdict.TESTED, Verdict.UNDECIDED):
         from verify.engines.strength import estimate
         extras["strength"] = estimate(design, the_spec, faults=strength, seed=seed,
                                       vectors=sampled[0].vectors, time_limit=timeout)
