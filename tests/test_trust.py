@@ -246,3 +246,31 @@ def test_strength_misses_what_a_tiny_sample_cannot_see():
     d = architectures.generate("ripple", 32)
     s = verify.check(d, ADD, engine="random", vectors=2, strength=60, seed=1).extras["strength"]
     assert s["caught"] < s["faults"] and s["missed"]
+
+
+def test_manifest_key_strength_reaches_the_record(tmp_path):
+    from verify.formats.json_netlist import dumps
+    from verify.manifest import runner
+    (tmp_path / "add.json").write_text(dumps(architectures.generate("ripple", 24)))
+    (tmp_path / "verify.toml").write_text(
+        '[[design]]\nname = "add"\nfiles = ["add.json"]\nspec = "{cout, sum} = a + b + cin"\n'
+        'engine = "random"\nrequire = "tested"\nvectors = 2000\nstrength = 25\n')
+    summary = runner.run(tmp_path / "verify.toml", use_cache=False)
+    s = summary.records[0]["strength"]
+    assert s["faults"] >= 20 and s["caught"] + s["missed_count"] == s["faults"]
+    (tmp_path / "verify.toml").write_text(
+        '[[design]]\nname = "add"\nfiles = ["add.json"]\nspec = "sum = a"\nstrength = 0\n')
+    with pytest.raises(verify.errors.InputError, match="strength"):
+        runner.load_manifest(tmp_path / "verify.toml")
+
+
+def test_cli_strength_prints_an_estimate_not_a_proof(tmp_path):
+    from click.testing import CliRunner
+    from verify.cli.main import cli
+    from verify.formats.json_netlist import dumps
+    (tmp_path / "add.json").write_text(dumps(architectures.generate("ripple", 20)))
+    got = CliRunner().invoke(cli, ["check", str(tmp_path / "add.json"), "--engine", "random",
+                                   "--vectors", "3000", "--strength", "20", "--no-log"])
+    assert got.exit_code == 0, got.output
+    line = next(x for x in got.output.splitlines() if x.startswith("strength:"))
+    assert "injected single faults" in line and "not a proof" in line
