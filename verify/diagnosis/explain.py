@@ -162,8 +162,6 @@ def _findings(an: Analysis, cex: Counterexample) -> dict[str, Any]:
         other = ", ".join(f"{k}={v}" for k, v in an.vectors[j].items())
         notes.append(f"this vector gives the right outputs, but {an.failing_count()} of "
                      f"{an.count} other vectors simulated fail (for example {other})")
-    if an.permutation is not None:
-        notes.append(wording(an.permutation))
     if fails_here and an.chosen and (len(an.chosen) > 1 or an.remaining):
         fixes = an.chosen
         if not an.remaining:
@@ -352,6 +350,8 @@ def render_text(design: Netlist, spec, counterexample: Counterexample,
     if findings.get("model"):
         head += "; model: " + "; ".join(f"{k} = {v}" for k, v in findings["outputs"].items())
     lines.append(head)
+    if findings.get("permutation"):
+        lines.append(wording(findings["permutation"]))
     if findings.get("bits"):
         lines.extend(_bit_table(design, counterexample, findings))
     else:

@@ -110,6 +110,14 @@ def establish(design: Netlist, spec, change: Change, *, vectors: int,
 def wording(repair: Mapping) -> str:
     """The sentence a report prints for a repair, as strong as its evidence and no stronger."""
     by = repair["established_by"]
+    if repair.get("kind") in ("swap-outputs", "permute-operand"):
+        back = {"exhaustive": f"putting them back makes the design meet the spec on all "
+                              f"{repair['vectors']:,} inputs (exhaustive)",
+                "proven": "putting them back makes the design meet the spec (proven by z3)",
+                "sampled": f"putting them back is consistent with the {repair['vectors']:,} "
+                           f"vectors simulated (not established by a complete engine)"}
+        if by in back:
+            return f"{repair['change']}: {back[by]}"
     if by == "exhaustive":
         return (f"this change makes the design meet the spec on all {repair['vectors']:,} inputs "
                 f"(exhaustive): {repair['change']}")
