@@ -276,3 +276,19 @@ def test_cli_strength_prints_an_estimate_not_a_proof(tmp_path):
     assert got.exit_code == 0, got.output
     line = next(x for x in got.output.splitlines() if x.startswith("strength:"))
     assert "injected single faults" in line and "not a proof" in line
+
+
+@pytest.mark.parametrize("change,words", [
+    (lambda d: d["inputs"].update({"q, r": 1}), "not an identifier"),
+    (lambda d: d.update(name="add\n`include \"x\""), "control character"),
+    (lambda d: d["gates"][0].update(out="n 1"), "space or control"),
+    (lambda d: d["gates"][0].update({"in": ["a[0]"] * 2000}), "a gate takes at most"),
+])
+def test_json_reader_refuses_names_a_writer_cannot_write(change, words):
+    import json
+    from verify.errors import InputError
+    from verify.formats import json_netlist
+    d = json.loads(json_netlist.dumps(architectures.generate("ripple", 2)))
+    change(d)
+    with pytest.raises(InputError, match=words):
+        json_netlist.parse(json.dumps(d), "d.json")

@@ -39,6 +39,10 @@ def _no_duplicates(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
 MAX_GATE_INPUTS = 1024
 #: a port name is a plain identifier, so every writer can use it as it is
 _IDENTIFIER = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
+#: net names may hold brackets and dots (bit references, instance paths) but no white space,
+#: which would end a Verilog escaped identifier early, and no control characters
+_SPACE = re.compile(r"[\s\x00-\x1f\x7f]")
+_CONTROL = re.compile(r"[\x00-\x1f\x7f]")
 
 
 def parse(text: str, origin: str = "<json>") -> Netlist:
@@ -75,6 +79,8 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
     name = data.get("name", "design")
     if not isinstance(name, str) or not name:
         raise bad("'name' must be a non-empty string")
+    if _CONTROL.search(name):
+        raise bad(f"'name' {name!r} holds a control character (a line break?)")
     ports = {}
     port_lists = []
     for key in ("inputs", "outputs"):
@@ -113,6 +119,9 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
         ins = g.get("in", [])
         if not isinstance(ins, list) or not all(isinstance(x, str) and x for x in ins):
             raise bad(f"{where} (out '{g['out']}'): 'in' must be a list of net names")
+        for net in (g["out"], *ins):
+            if _SPACE.search(net):
+                raise bad(f"{where}: net name {net!r} holds a space or control character")
         if len(ins) > MAX_GATE_INPUTS:
             raise bad(f"{where} (out '{g['out']}'): {len(ins):,} inputs; a gate takes at most "
                       f"{MAX_GATE_INPUTS:,} (build wide functions from a tree of gates)")
