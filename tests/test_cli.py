@@ -65,7 +65,7 @@ def test_json_output_and_the_run_log(files, capsys):
 
 def test_require_complete_turns_a_sample_into_exit_3(files, capsys):
     tmp, good, _ = files
-    args = ["check", str(good), "--engine", "random", "--no-log"]
+    args = ["check", str(good), "--engine", "random", "--vectors", "1000", "--no-log"]
     assert run(args, capsys)[0] == 0
     code, out, _ = run(args + ["--require", "complete"], capsys)
     assert code == 3 and "TESTED" in out

@@ -149,6 +149,10 @@ def test_verdicts_say_what_they_cover():
     assert r.verdict is Verdict.EXHAUSTIVE and r.ok and "2^9" in r.coverage
     r = verify.check(d, ADD, engine="smt")
     assert r.verdict is Verdict.PROVEN and r.ok
+    # 2^9 vectors fit a budget of 1,000: every input is simulated once, so it is exhaustive
+    r = verify.check(d, ADD, engine="random", vectors=1000)
+    assert r.verdict is Verdict.EXHAUSTIVE and r.ok
+    d = ripple(12)
     r = verify.check(d, ADD, engine="random", vectors=1000)
     assert r.verdict is Verdict.TESTED and r.ok and "not a proof" in r.coverage
     r = verify.check(d, ADD, engine="random", vectors=1000, require="complete")

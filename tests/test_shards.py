@@ -210,3 +210,32 @@ def test_neighbouring_shards_meet_exactly(bits, count, k):
         assert hi == total
     else:
         assert shard_range(total, (k + 1, count))[0] == hi
+
+
+@pytest.mark.parametrize("edit", ["name", "width", "spec"])
+def test_merge_refuses_a_shard_whose_name_width_or_spec_was_edited(shard_files, tmp_path, edit):
+    files = shard_files(ripple(4), 3)
+    data = json.loads(open(files[1]).read())
+    for item in [data]:
+        if edit == "name":
+            item["design"]["name"] = "someone_else"
+        elif edit == "width":
+            item["design"]["outputs"]["sum"] = 5
+        else:
+            item["spec"] = item["spec"] + " "
+    bad = tmp_path / "edited.json"
+    bad.write_text(json.dumps(data))
+    # the other shards keep the original design and spec, so edit them alike: the binding alone
+    # must catch the change
+    given = []
+    for n, f in enumerate(files):
+        if n == 1:
+            given.append(str(bad))
+            continue
+        other = json.loads(open(f).read())
+        other["design"], other["spec"] = data["design"], data["spec"]
+        path = tmp_path / f"edited{n}.json"
+        path.write_text(json.dumps(other))
+        given.append(str(path))
+    with pytest.raises(InputError, match="binding hash"):
+        merge(given)

@@ -7,7 +7,8 @@
                           spec="{cout, sum} = a + b + cin")
     assert result.ok, result.coverage
 
-``engine="auto"`` (the default) runs random vectors first, to find a bug fast, then the exhaustive
+``engine="auto"`` (the default) runs random vectors first (``vectors`` of them, default 20,000),
+to find a bug fast, then the exhaustive
 engine when the input bits fit its limit, else z3 within the time limit. If that last engine gives
 no answer, the verdict is undecided: passing random vectors never stands in for a proof.
 """
@@ -51,6 +52,19 @@ def resolve_spec(design: Netlist, spec=None):
     return spec
 
 
+def shard_binding(design: dict, spec: str, shard: dict) -> str:
+    """A content hash tying a shard result to its design (name, hash, ports), spec and range,
+    so that ``merge`` refuses a file whose name, port widths, spec or range was edited. Anyone
+    can recompute it: it catches edits and mix-ups, not a deliberate forgery."""
+    import hashlib
+    import json
+
+    data = {"design": {k: design.get(k) for k in ("name", "hash", "inputs", "outputs")},
+            "spec": spec,
+            "shard": {k: shard.get(k) for k in ("index", "count", "vectors", "first", "last")}}
+    return hashlib.sha256(json.dumps(data, sort_keys=True).encode()).hexdigest()
+
+
 def _whole(value) -> bool:
     return isinstance(value, int) and not isinstance(value, bool)
 
@@ -76,7 +90,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
           vectors: int | None = None, timeout: float = DEFAULT_TIMEOUT,
           require: str | Require = Require.TESTED,
           exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS, shrink: bool = True,
-          shard: tuple[int, int] | None = None,
+          shard: tuple[int, int] | None = None, strength: int | None = None,
           progress: Callable[[str, int, int], None] | None = None,
           settle_within: float | None = None, delays=None) -> CheckResult:
     """Establish what can be established about ``design`` against ``spec``.
@@ -87,6 +101,9 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     ``settle_within=D`` also proves every output settled by time D for every input under the
     ``delays`` model (``verify.timing.settle_check``); a late output fails, a time limit leaves
     the verdict undecided.
+    ``strength=N`` injects N single faults into copies of the design and reports in
+    ``result.strength`` what fraction the same random vectors catch (an estimate, not a proof);
+    only when random vectors are the strongest evidence (a tested or undecided verdict).
     Raises InputError for bad input; never returns a passing verdict no engine established.
     """
     started = time.perf_counter()
@@ -110,6 +127,9 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
             raise InputError(f"must be a time >= 0, got {settle_within!r}", option="settle_within")
         from verify.timing.delays import resolve as resolve_delays
         delays = resolve_delays(delays)
+    if strength is not None and (not _whole(strength) or not 1 <= strength <= 100_000):
+        raise InputError(f"must be a whole number of faults from 1 to 100,000, got {strength!r}",
+                         option="strength")
     if shard is not None and shard[1] > 1 << design.input_width:
         raise InputError(f"shard {shard[0]}/{shard[1]}: the input space of {design.name} has only "
                          f"2^{design.input_width} = {1 << design.input_width:,} vectors; give at "
@@ -125,9 +145,10 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
 
     outcomes: list[EngineOutcome] = []
     if engine == "auto":
-        first = min(vectors, AUTO_RANDOM_VECTORS) if vectors else AUTO_RANDOM_VECTORS
+        first = vectors if vectors else AUTO_RANDOM_VECTORS  # --vectors sets this stage
         outcomes.append(_engine("random")(design, the_spec, options("random", vectors=first)))
-        if outcomes[-1].status != "fail":
+        if outcomes[-1].status != "fail" and outcomes[-1].engine != "exhaustive":
+            # (the random stage simulated the whole space when it fitted its budget)
             final = "exhaustive" if design.input_width <= exhaustive_limit else "smt"
             outcomes.append(_engine(final)(design, the_spec, options(final)))
     else:
@@ -144,7 +165,7 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
             shrink = False  # the vector is the settle witness; a smaller one may settle in time
         elif outcomes[-1].status != "pass" and verdict is not Verdict.FAIL:
             verdict = Verdict.UNDECIDED
-    found = shard_part = None
+    found = shard_part = strength_figures = None
     if cex is not None and shrink:
         from verify.engines.shrink import shrink as shrink_cex
         small = shrink_cex(design, the_spec, cex)
@@ -152,9 +173,19 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
             found = cex
         cex = small
     if shard is not None and outcomes[0].details.get("shard"):
-        shard_part = ShardPart(**outcomes[0].details["shard"])
+        part = dict(outcomes[0].details["shard"])
+        part["binding"] = shard_binding(
+            {"name": design.name, "hash": design.content_hash(),
+             "inputs": {p.name: p.width for p in design.inputs},
+             "outputs": {p.name: p.width for p in design.outputs}}, the_spec.text, part)
+        shard_part = ShardPart(**part)
         if verdict is Verdict.EXHAUSTIVE and shard[1] > 1:
             verdict = Verdict.TESTED  # one part of the space: 'adder-verify merge' gives the whole
+    sampled = [o for o in outcomes if o.engine == "random" and o.status == "pass"]
+    if strength and sampled and verdict in (Verdict.TESTED, Verdict.UNDECIDED):
+        from verify.engines.strength import estimate
+        strength_figures = estimate(design, the_spec, faults=strength, seed=seed,
+                                    vectors=sampled[0].vectors, time_limit=timeout)
     return CheckResult(
         design=design.name, design_hash=design.content_hash(),
         ports={"inputs": {p.name: p.width for p in design.inputs},
@@ -162,4 +193,4 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         gate_count=len(design.gates), spec=the_spec.text, spec_inferred=the_spec.inferred,
         engines=outcomes, verdict=verdict, require=require, counterexample=cex,
         seconds=time.perf_counter() - started, origin=design.origin,
-        found_counterexample=found, shard=shard_part)
+        found_counterexample=found, shard=shard_part, strength=strength_figures)

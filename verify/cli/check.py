@@ -26,7 +26,8 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
               help="Seed of the random engine.")
 @click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
-              "(default 200,000; auto runs 20,000 first).")
+              "(default 200,000; under auto, the random stage before the complete engine, "
+              "default 20,000). An input space that fits is simulated whole (exhaustive).")
 @click.option("--timeout", type=float, default=DEFAULT_TIMEOUT, show_default=True,
               help="Seconds an engine may take; past it the outcome is undecided.")
 @click.option("--require", type=click.Choice(["tested", "complete"]), default="tested",
@@ -56,10 +57,13 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
               "'adder-verify timing'.")
 @click.option("--delays", metavar="MODEL", help="Delay model for --settle-within: 'unit' (the "
               "default) or a TOML delay table.")
+@click.option("--strength", type=click.IntRange(1, 100_000), metavar="N",
+              help="After random vectors pass: inject N single faults into copies of the design "
+              "and report what fraction the same vectors catch (an estimate, not a proof).")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
 def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, cluster,
               top, params, include_dirs, defines, cells, as_json, recursive, log_dir, no_log,
-              vcd_path, dot_path, no_diagnose, settle_within, delays, quiet):
+              vcd_path, dot_path, no_diagnose, settle_within, delays, strength, quiet):
     from contextlib import nullcontext
 
     from verify.batch import check_files, exit_code, project_log_dir
@@ -86,7 +90,8 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
                 vcd_path=vcd_path, dot_path=dot_path, log_dir=log_dir, recursive=recursive,
                 progress=bar, engine=engine, seed=seed, vectors=vectors, timeout=timeout,
                 require=require, exhaustive_limit=exhaustive_limit, shard=parse_shard(shard),
-                settle_within=settle_within, delays=delays, executor=executor)
+                settle_within=settle_within, delays=delays, strength=strength,
+                executor=executor)
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))

@@ -203,7 +203,11 @@ def merge_cmd(files, as_json):
 
     Exit 0 (exhaustive) only when all N shards are present, cover the input space once and pass;
     1 when any shard found a counterexample; 3 when shards are missing or one stopped without an
-    answer; 2 when the files are not shards of one design and spec, or repeat or overlap.
+    answer; 2 when the files are not shards of one design and spec, or repeat or overlap, or a
+    file's design name, ports, spec or range was edited (each shard carries a binding hash).
+
+    A merge checks that the shard files are consistent; it cannot tell a forged file from a real
+    one (anyone can write such JSON). Trust it as far as you trust whoever wrote the files.
     """
     from verify.manifest import shards
 

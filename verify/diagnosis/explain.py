@@ -23,6 +23,7 @@ from typing import Any, Mapping
 
 from verify.diagnosis.suspects import DEFAULT_VECTORS, Analysis, analyse
 from verify.diagnosis.reference import AdderModel
+from verify.diagnosis.repair import wording
 from verify.errors import InputError
 from verify.files import write_text
 from verify.model.netlist import CONSTANTS, Netlist
@@ -70,7 +71,8 @@ def analyse_failure(design: Netlist, spec, counterexample: Counterexample, *,
                     ) -> tuple[Analysis, dict[str, Any]]:
     """The analysis behind ``diagnose`` and its JSON-ready findings, with no file written (for
     callers that draw the waveform and the cone themselves: ``waveform_text``, ``cone_text``)."""
-    an = analyse(design, spec, [counterexample.inputs], count=vectors, seed=seed, top=top)
+    an = analyse(design, spec, [counterexample.inputs], count=vectors, seed=seed, top=top,
+                 establish=True)
     return an, _findings(an, counterexample)
 
 
@@ -166,15 +168,15 @@ def _findings(an: Analysis, cex: Counterexample) -> dict[str, Any]:
         other = ", ".join(f"{k}={v}" for k, v in an.vectors[j].items())
         notes.append(f"this vector gives the right outputs, but {an.failing_count()} of "
                      f"{an.count} other vectors simulated fail (for example {other})")
-    elif an.suspects and an.suspects[0].repairs < 1.0:
-        fixes = [s.net for s in an.suspects if s is an.suspects[0] or s.after]
+    if fails_here and an.chosen and (len(an.chosen) > 1 or an.remaining):
+        fixes = an.chosen
         if not an.remaining:
-            notes.append(f"no single net explains every failing vector; repairing "
+            notes.append(f"no single net explains every failing vector; changing "
                          f"{' and '.join(fixes)} together makes all {an.count} vectors right "
-                         f"(one suspect per fault is listed first)")
+                         f"(a sample, not a proof)")
         else:
             notes.append(f"no single net explains every failing vector (more than one fault?); "
-                         f"with {', '.join(fixes)} repaired, {bin(an.remaining).count('1')} "
+                         f"with {', '.join(fixes)} changed, {bin(an.remaining).count('1')} "
                          f"vectors still fail")
     lines_used: dict[str, list[str]] = {}  # one source line used by several instances
     for s in an.suspects[:3]:
@@ -192,6 +194,9 @@ def _findings(an: Analysis, cex: Counterexample) -> dict[str, Any]:
         "vectors": an.count,
         "failing_vectors": an.failing_count(),
         "suspects": [s.to_json() for s in an.suspects],
+        "permutation": an.permutation,
+        #: the permutation finding as the one line a report prints (None when there is none)
+        "permutation_text": wording(an.permutation) if an.permutation else None,
         "first_wrong": first,
         "trace": trace,
         "bits": _bits(an, cex),
@@ -258,6 +263,9 @@ def _trace(an: Analysis, target: str | None) -> list[dict[str, Any]]:
         path.append(n)
         n = parent[n]
     path.reverse()
+    if an.table is not None:  # start at the first net that matches no reference function
+        while path and an.table.matches(an.values[path[0]]):
+            path.pop(0)
     out = []
     for n in path:
         g = d.driver[n]
@@ -314,18 +322,27 @@ def _port_of(design: Netlist, bit: str) -> str:
 
 
 def _carry_nets(an: Analysis) -> list[tuple[str, bool] | None]:
-    """For each carry c_0..c_n, the design net carrying it (in the repaired design), if any."""
-    words = an.repaired or an.values
+    """For each carry c_0..c_n, the design net equal to it on every vector simulated, if any:
+    first in the design as it is, else in the design with the top suspect changed (a net that
+    goes wrong is found there)."""
     M = an.mask
-    first: dict[int, str] = {}
-    for n in [*an.design.input_bits, *(g.output for g in an.design.ordered_gates)]:
-        first.setdefault(words[n], n)
+    order = [*an.design.input_bits, *(g.output for g in an.design.ordered_gates)]
+    as_is: dict[int, str] = {}
+    for n in order:
+        as_is.setdefault(an.values[n], n)
+    changed: dict[int, str] = {}
+    if an.repaired:
+        for n in order:
+            changed.setdefault(an.repaired[n], n)
     out: list[tuple[str, bool] | None] = []
     for w in an.model_words.get("c", []):
-        if w in first:
-            out.append((first[w], False))
-        elif (w ^ M) in first:
-            out.append((first[w ^ M], True))
+        for table in (as_is, changed):
+            if w in table:
+                out.append((table[w], False))
+                break
+            if (w ^ M) in table:
+                out.append((table[w ^ M], True))
+                break
         else:
             out.append(None)
     return out
@@ -341,6 +358,8 @@ def render_text(design: Netlist, spec, counterexample: Counterexample,
     if findings.get("model"):
         head += "; model: " + "; ".join(f"{k} = {v}" for k, v in findings["outputs"].items())
     lines.append(head)
+    if findings.get("permutation_text"):
+        lines.append(findings["permutation_text"])
     if findings.get("bits"):
         lines.extend(_bit_table(design, counterexample, findings))
     else:
@@ -425,12 +444,12 @@ def _bit_table(design: Netlist, cex: Counterexample, findings: Mapping[str, Any]
                      f"carry into it: expected {rows[first]['carry_expected']}"
                      + (f", the design's {rows[first]['carry_net']} is "
                         f"{rows[first]['carry_actual']}" if "carry_net" in rows[first] else
-                        ", no net of the design carries it"))
+                        ", no net of the design equals it on every vector simulated"))
     else:
         lines.append("  every bit of the sum is right on this vector")
     legend = f"  (columns are bits of {an_} + {bn_}; column {n} is the carry out"
     if any("carry_net" not in r for r in rows):
-        legend += "; '.' where no net of the design carries that carry"
+        legend += "; '.' where no net of the design equals that carry on every vector simulated"
     lines.append(legend + ")")
     for p in design.outputs:  # outputs that are not slices of the sum (overflow flags)
         if (findings.get("outputs") or {}).get(p.name, "").startswith("signed overflow"):

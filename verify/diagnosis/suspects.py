@@ -30,6 +30,10 @@ from verify.diagnosis.reference import AdderModel, Table, detect, table
 from verify.errors import InputError
 from verify.model.ops import OPS
 from verify.model.netlist import CONST0, CONST1, Netlist
+from verify.diagnosis.changes import local_changes
+from verify.diagnosis.repair import (MAX_ESTABLISH, Change, operand_changes,
+                                     permutation_changes, wording)
+from verify.diagnosis.repair import establish as establish_repair
 from verify.sim import Simulator, pack
 
 #: vectors simulated for a diagnosis (the counterexample and its neighbours come on top)
@@ -61,6 +65,10 @@ class Suspect:
     why: str = ""
     local: str | None = None  # one change at this gate that gives the value it needs
     after: list[str] = field(default_factory=list)  # suspects repaired before this one was ranked
+    changes: list = field(default_factory=list)  # candidate repairs at this gate (repair.Change)
+    repair: dict | None = None  # how far a complete engine backs the best of them
+    refuted: bool = False  # every concrete change tried was refuted by a complete engine
+    nfail: int = 0  # failing vectors when it was ranked
 
     def to_json(self, table: Table | None = None) -> dict:
         out = {"net": self.net, "op": self.op, "inputs": list(self.inputs),
@@ -68,6 +76,8 @@ class Suspect:
                "repairs": round(self.repairs, 4), "must_change_vectors": self.must_change,
                "behaves_like": self.behaves_like, "should_be": self.should_be,
                "local_change": self.local, "after_repairing": self.after, "why": self.why}
+        if self.repair is not None:
+            out["repair"] = {k: self.repair[k] for k in ("change", "established_by", "vectors")}
         return out
 
 
@@ -89,6 +99,8 @@ class Analysis:
     repaired: dict[str, int] = field(default_factory=dict)  # values with the top suspect fixed
     candidates_tried: int = 0
     remaining: int = 0  # word: vectors still failing with every chosen suspect repaired
+    permutation: dict | None = None  # output or operand bits in the wrong places (a repair)
+    chosen: list[str] = field(default_factory=list)  # one suspect per fault, repaired in turn
 
     @property
     def count(self) -> int:
@@ -162,8 +174,11 @@ def make_vectors(design: Netlist, first: Sequence[Mapping[str, int]], model: Add
 
 def analyse(design: Netlist, spec, first: Sequence[Mapping[str, int]], *,
             count: int = DEFAULT_VECTORS, seed: int = 1, top: int = 10,
-            model: AdderModel | None | str = "detect") -> Analysis:
-    """Simulate, match signatures, try single-net repairs and rank the suspects."""
+            model: AdderModel | None | str = "detect", establish: bool = False) -> Analysis:
+    """Simulate, match signatures, try single-net repairs and rank the suspects.
+
+    ``establish=True`` also checks output/operand permutations and the top suspects' repairs
+    with a complete engine (``verify.diagnosis.repair``)."""
     if model == "detect":
         model = detect(design, spec)
     vectors = make_vectors(design, first, model, count, seed)
@@ -195,9 +210,79 @@ def analyse(design: Netlist, spec, first: Sequence[Mapping[str, int]], *,
             failing |= d
     tab, mwords = (table(model, values, M) if model is not None else (None, {}))
     an = Analysis(design, model, vectors, M, values, expected, failing, wrong, tab, mwords)
+    if failing and establish:
+        an.permutation = _permutation(an, spec, words)
+        if an.permutation and an.permutation["established_by"] in ("exhaustive", "proven"):
+            return an  # bits in the wrong places explain it all: no gate-level search
     if failing:
         _rank(an, top)
+        if establish:
+            settle_repairs(an, spec)
     return an
+
+
+def _permutation(an: Analysis, spec, words: list[int]) -> dict | None:
+    """Output bits or operand bits in the wrong places, checked by a complete engine."""
+    d = an.design
+    cands = permutation_changes(d, an.expected, an.values)
+    if not cands:
+        sim = Simulator(d)
+        exp = [an.expected[b] for b in d.output_bits]
+
+        def miter_run(trial: list[int]) -> int:
+            diff = 0
+            for got, want in zip(sim.run(trial, an.mask), exp):
+                diff |= got ^ want
+            return diff
+
+        widest = max(d.outputs, key=lambda p: p.width)
+        wrong = [i for i, b in enumerate(widest.bits) if b in an.wrong_bits]
+        cands = operand_changes(d, words, an.mask, miter_run, wrong[0] if wrong else None)
+    for c in cands[:2]:
+        r = establish_repair(d, spec, c, vectors=an.count)
+        if r["established_by"] != "refuted":
+            return r
+    return None
+
+
+def settle_repairs(an: Analysis, spec, budget: int = MAX_ESTABLISH) -> None:
+    """Hand the top suspects' candidate changes to a complete engine, most plausible first; a
+    suspect keeps the first change shown to make the design meet the spec (else the first one
+    no engine could settle, worded as consistent with the vectors). Refuted changes are dropped."""
+    tries = 0
+    if len(an.chosen) > 1:  # several faults: the chosen suspects' changes made together
+        by_net = {s.net: s for s in an.suspects}
+        group = [by_net[n] for n in an.chosen if n in by_net]
+        firsts = [next((c for c in s.changes if c.concrete), None) for s in group]
+        if len(group) == len(an.chosen) and all(firsts):
+            joint = Change(" and ".join(f"at {s.net}: {c.text}" for s, c in zip(group, firsts)),
+                           "joint", parts=tuple(firsts))
+            r = establish_repair(an.design, spec, joint, vectors=an.count)
+            tries += 1
+            for s, c in zip(group, firsts):
+                if r["established_by"] != "refuted":
+                    s.repair, s.local = r, c.text
+                else:
+                    s.refuted = True
+                s.why = _why(s, an, s.nfail)
+        return
+    for s in an.suspects[:3]:
+        for c in [c for c in s.changes if c.concrete]:
+            if tries >= budget:
+                break
+            tries += 1
+            r = establish_repair(an.design, spec, c, vectors=an.count)
+            if r["established_by"] in ("exhaustive", "proven"):
+                s.repair = r
+                s.local = c.text
+                break
+            if r["established_by"] == "sampled" and s.repair is None:
+                s.repair = r
+                s.local = c.text
+        if s.repair is None and s.local and any(c.concrete for c in s.changes):
+            s.local = None  # every change tried was refuted, or none could be tried
+            s.refuted = True
+        s.why = _why(s, an, s.nfail)
 
 
 class _Graph:
@@ -281,7 +366,11 @@ def _rank(an: Analysis, top: int) -> None:
         ranked, repaired = _rank_once(an, G, base, exp, fail, reach, anc, top)
         if not ranked:
             break
-        best = ranked[0]
+        taken = {c.net for c in chosen}
+        fresh = [r for r in ranked if r.net not in taken]
+        if not fresh:
+            break
+        best = fresh[0]
         if round_ == 0:
             first = ranked
         else:
@@ -295,7 +384,11 @@ def _rank(an: Analysis, top: int) -> None:
         if not fail:
             break
     picked = {c.net for c in chosen}
-    an.suspects = (chosen + [s for s in first if s.net not in picked])[:top]
+    listed = chosen + [s for s in first if s.net not in picked]
+    # one entry a net, in the order of the scores printed beside them
+    an.suspects = sorted(listed, key=lambda s: -round(s.score, 9))[:top]  # stable: ties keep
+    # the ranking's own order (a plain reference function before a complement, then earlier)
+    an.chosen = [c.net for c in chosen]
     an.remaining = fail if chosen else an.failing
     an.repaired = dict(zip(G.nets[2:], base[2:])) if chosen else {}
 
@@ -346,18 +439,20 @@ def _rank_once(an: Analysis, G: _Graph, base: list[int], exp: list[int], fail: i
         g = G.gates[k - G.first_gate]
         required = base[k] ^ fixed
         care = fixed | (~fail & M & ~ok_flip)
-        change = _local_change(G, base, k, required, care, M, search=k in local_for)
+        changes = local_changes(G, base, k, required, care, M, search=k in local_for,
+                                 limit=4 if k in exact else 1)
+        change = changes[0] if changes else None
         if change is None:
             weight = NO_LOCAL_WEIGHT * (HEALTHY_WEIGHT if healthy[k] else 1.0)
         else:
-            weight = _CHANGE_WEIGHT[change[1]] * (HEALTHY_LOCAL_WEIGHT if healthy[k] else 1.0)
-            changed[k] = change[2]
-            change = change[0]
+            weight = _CHANGE_WEIGHT[change.kind] * (HEALTHY_LOCAL_WEIGHT if healthy[k] else 1.0)
+            changed[k] = change.word
         score = frac * weight / (1 + upstream)
         sus = Suspect(g.output, g.op, g.inputs, g.source, score, frac,
                       an.table.matches(base[k])[:3] if an.table else [], [],
                       _popcount(fixed), upstream, k)
-        sus.local = change
+        sus.local = change.text if change else None
+        sus.changes = changes
         suspects.append(sus)
     suspects.sort(key=lambda s: (-s.score, s.order))
     suspects = suspects[:top + 4]
@@ -399,75 +494,9 @@ NO_LOCAL_WEIGHT = 0.3
 HEALTHY_LOCAL_WEIGHT = 0.8
 #: how plausible each kind of single change at a gate is, as a bug
 _CHANGE_WEIGHT = {"const": 1.0, "op": 1.0, "invert": 1.0, "stuck": 0.9, "source": 0.9,
-                  "missing": 0.7}
-_SAME_ARITY = {1: ("buf", "not"), 2: ("and", "or", "xor", "nand", "nor", "xnor"),
-               3: ("and", "or", "xor", "nand", "nor", "xnor", "mux", "maj")}
-
-
-def _local_change(G: _Graph, base: list[int], k: int, required: int, care: int, M: int,
-                  search: bool = True) -> tuple[str, str, int | None] | None:
-    """(what to change, its kind, the net's word with that change or None).
-
-    ``search=False`` skips the two tests that try every other net (another source, a forgotten
-    input), the costly ones."""
-    """One change at the gate driving net k that makes it carry ``required`` on ``care``:
-    a constant output, another op, an inverted input, or an input taken from another net."""
-    gpos = k - G.first_gate
-    g = G.gates[gpos]
-    ins = G.gate_ins[gpos]
-    want = required & care
-
-    def gives(word: int) -> bool:
-        return (word & care) == want
-
-    if base[k] & care in (0, care) and g.op in ("const0", "const1"):
-        return (f"it is tied to {0 if g.op == 'const0' else 1}: its value never changes", "const",
-                None)
-    stuck = ((f"it is stuck at {1 if base[k] else 0} over every vector", "stuck", None)
-             if base[k] in (0, M) and not gives(base[k]) else None)
-    if not ins:
-        return stuck
-    xs = [base[i] for i in ins]
-    arity = len(xs) if len(xs) <= 3 else 2
-    for op in _SAME_ARITY[arity]:
-        if op != g.op and not (op in ("mux", "maj") and len(xs) != 3):
-            w = _eval(op, xs, M)
-            if gives(w):
-                return f"its op should be {op}, not {g.op}", "op", w
-    for pos in range(len(xs)):
-        trial = list(xs)
-        trial[pos] ^= M
-        w = _eval(g.op, trial, M)
-        if gives(w):
-            return f"input {pos + 1} ({G.nets[ins[pos]]}) should be inverted", "invert", w
-    if not search:
-        return stuck
-    downstream = {G.first_gate + gp for gp in G.cone(k)} | {k}
-    for pos in range(len(xs)):
-        trial = list(xs)
-        for other in range(len(G.nets)):  # not from its own fan-out: that would be a loop
-            if other == ins[pos] or other in downstream:
-                continue
-            trial[pos] = base[other]
-            w = _eval(g.op, trial, M)
-            if gives(w):
-                return (f"input {pos + 1} should come from {G.nets[other]}, "
-                        f"not {G.nets[ins[pos]]}"), "source", w
-    ops = (g.op,) if g.op in ("and", "or", "xor", "nand", "nor", "xnor") else (
-        ("and", "or", "xor") if g.op == "buf" else ())
-    for op in ops:  # a forgotten input: one more net into the gate
-        for other in range(len(G.nets)):
-            if other in downstream or other in ins:
-                continue
-            w = _eval(op, [*xs, base[other]], M)
-            if gives(w):
-                what = f"{g.op} gate" if op == g.op else f"buf should be {op} and"
-                return (f"this {what} is missing an input: {G.nets[other]} gives the value it "
-                        f"needs"), "missing", w
-    return stuck
-
-
+                  "missing": 0.7, "source-const": 0.6}
 def _why(s: Suspect, an: Analysis, nfail: int) -> str:
+    s.nfail = nfail
     parts = []
     if s.after:
         parts.append(f"with {', '.join(s.after)} repaired, {nfail} vectors still fail")
@@ -479,13 +508,21 @@ def _why(s: Suspect, an: Analysis, nfail: int) -> str:
     t = an.table
     if t is not None:
         if s.behaves_like:
-            parts.append(f"its value equals {s.behaves_like[0]} ({t.explain(s.behaves_like[0])})")
+            parts.append(f"on every vector simulated its value equals {s.behaves_like[0]} "
+                         f"({t.explain(s.behaves_like[0])})")
         else:
             parts.append("its value matches no reference function of addition")
         if s.should_be:
-            parts.append(f"it should carry {s.should_be[0]} ({t.explain(s.should_be[0])})")
-    if s.local:
-        parts.append(f"one change at this gate fixes it: {s.local}")
+            parts.append(f"on these {an.count} vectors the value it would need equals "
+                         f"{s.should_be[0]} ({t.explain(s.should_be[0])})")
+    if s.repair is not None and s.repair["established_by"] in ("exhaustive", "proven", "sampled"):
+        parts.append(wording(s.repair))
+    elif s.refuted:
+        parts.append("the changes at this gate that fit these vectors were refuted by a complete "
+                     "engine (the design stays wrong with them)")
+    elif s.local and s.repair is None:
+        parts.append(f"a change at this gate consistent with the {an.count} vectors simulated: "
+                     f"{s.local}")
     if s.upstream:
         parts.append(f"{s.upstream} earlier net{'s also diverge' if s.upstream > 1 else ' also diverges'}")
     return "; ".join(parts)

@@ -42,14 +42,17 @@ def shard_range(total: int, shard: tuple[int, int] | None) -> tuple[int, int]:
 def run(design, spec, options: Options) -> EngineOutcome:
     n = design.input_width
     started = time.perf_counter()
-    if n > options.exhaustive_limit:
+    lo, hi = shard_range(1 << n, options.shard)
+    if hi - lo > 1 << options.exhaustive_limit:  # the limit holds per shard
+        part = f" (shard {options.shard[0]}/{options.shard[1]} holds {hi - lo:,})" \
+            if options.shard else ""
         return EngineOutcome(
             "exhaustive", "skipped", 0.0,
-            f"{n} input bits is 2^{n} vectors, over the exhaustive limit of 2^{options.exhaustive_limit}",
+            f"{n} input bits is 2^{n} vectors{part}, over the exhaustive limit of "
+            f"2^{options.exhaustive_limit}",
             details={"input_bits": n, "limit_bits": options.exhaustive_limit})
     miter = miter_of(design, spec.reference())
     total = 1 << n
-    lo, hi = shard_range(total, options.shard)
     found, done = (_scan_small if n <= 12 else _scan_chunks)(miter, n, lo, hi, options, started)
     seconds = time.perf_counter() - started
     rate = done / seconds if seconds > 0 else float("inf")

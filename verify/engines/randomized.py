@@ -8,8 +8,11 @@ bit-sliced into Python integers and run through the design beside the spec's ref
    bits s..s+L-1 (a - b style: a equals b there), the bit below the run generates or kills, the
    rest is random; each with carry-in 0 and 1. When the sweep would take more than half the
    budget, runs are drawn at random instead (lengths spread evenly on a log scale);
-2. then a mix: more random runs, special values (0, all ones, 0101..., 1010..., the largest and
-   smallest signed values, 1) in every pairing, and uniform vectors.
+2. then a mix, in eighths of a batch: random runs (2/8); two runs at once (1/8); a biased stream
+   (3/8) where each vector draws a propagate probability from 1/2, 3/4, 15/16, 63/64 and every
+   bit propagates with it, so long runs with holes and several runs at once are common; special
+   values (0, all ones, 0101..., 1010..., the largest and smallest signed values, 1) in every
+   pairing (1/8); and uniform vectors (1/8).
 
 One-bit inputs (carry-in, mode bits) alternate 0 and 1 through the stream.
 """
@@ -17,6 +20,7 @@ One-bit inputs (carry-in, mode bits) alternate 0 and 1 through the stream.
 from __future__ import annotations
 
 import time
+from dataclasses import replace
 
 import numpy as np
 
@@ -25,11 +29,18 @@ from verify.model.result import EngineOutcome
 from verify.sim import miter_of
 
 _BITS_PER_BATCH = 1 << 22
+#: propagate probabilities of the biased stream, one drawn per vector
+PROPAGATE_ODDS = (0.5, 0.75, 15 / 16, 63 / 64)
 
 
 def run(design, spec, options: Options) -> EngineOutcome:
     started = time.perf_counter()
     budget = options.vectors if options.vectors is not None else DEFAULT_VECTORS
+    if design.input_width < 63 and 1 << design.input_width <= budget:
+        # the whole input space fits the budget: every vector, once, is no longer a sample
+        from verify.engines import exhaustive
+        return exhaustive.run(design, spec, replace(options, exhaustive_limit=max(
+            options.exhaustive_limit, design.input_width)))
     miter = miter_of(design, spec.reference())
     gen = VectorStream(design, options.seed, budget)
     done = 0
@@ -82,7 +93,8 @@ class Batch:
         if k == 1:
             s, n = int(self._run[0][j]), int(self._run[1][j])
             return f"propagate run over bits {s}..{s + n - 1}"
-        return "special values" if k == 2 else "uniform"
+        return {2: "special values", 3: "biased propagate", 4: "two propagate runs"}.get(
+            k, "uniform")
 
     def vector(self, j: int) -> dict[str, int]:
         out = {}
@@ -133,9 +145,9 @@ class VectorStream:
             pair = index[in_sweep] // 4
             s, length = _pair_to_run(pair, w)
             run_s[in_sweep], run_len[in_sweep] = s, length
-            # after the sweep, in blocks of a fifth of a batch: 2 random runs, 1 special
-            # values, 2 uniform
-            slot = ((index - self.sweep) * 5 // self.batch) % 5
+            # after the sweep, in blocks of an eighth of a batch: 2 random runs, 1 two runs at
+            # once, 3 biased propagate, 1 special values, 1 uniform
+            slot = ((index - self.sweep) * 8 // self.batch) % 8
             rand_run = ~in_sweep & (slot < 2)
             nr = int(rand_run.sum())
             if nr:
@@ -145,13 +157,22 @@ class VectorStream:
                 run_len[rand_run] = length
             is_run = in_sweep | rand_run
             self._runs(bits, is_run, run_s, run_len, index)
-            special = ~in_sweep & (slot == 2)
+            special = ~in_sweep & (slot == 6)
             self._specials(bits, special)
+            biased = ~in_sweep & (slot >= 3) & (slot <= 5)
+            self._biased(bits, biased)
+            two = ~in_sweep & (slot == 2)
+            self._two_runs(bits, two)
             kinds[is_run] = 1
             kinds[special] = 2
+            kinds[biased] = 3
+            kinds[two] = 4
             self._count("propagate runs", int(is_run.sum()))
             self._count("special values", int(special.sum()))
-            self._count("uniform", int(k - is_run.sum() - special.sum()))
+            self._count("biased propagate", int(biased.sum()))
+            self._count("two propagate runs", int(two.sum()))
+            self._count("uniform", int(k - is_run.sum() - special.sum() - biased.sum()
+                                       - two.sum()))
         else:
             self._count("uniform", k)
         for n, p in enumerate(self.controls):
@@ -186,6 +207,47 @@ class VectorStream:
         gen = ((index[sel] % 4) < 2).astype(np.uint8)
         a[below, sel] = gen
         b[below, sel] = np.where(subtract_style[sel], 0, gen)
+
+    def _set_propagate(self, bits, span: slice, rows: np.ndarray, p: np.ndarray) -> None:
+        """In the flagged rows of ``span``, make a XOR b equal ``p`` (a (width, n) 0/1 matrix);
+        a stays uniform, so where p is 0 each bit generates or kills at random. With one operand
+        (an incrementer) a itself takes the pattern: a run of ones carries."""
+        a = bits[self.operands[0].name][:, span]
+        if len(self.operands) == 1:
+            np.copyto(a, p, where=rows[None, :])
+            return
+        b = bits[self.operands[1].name][:, span]
+        np.copyto(b, a ^ p, where=rows[None, :])
+
+    def _biased(self, bits, rows) -> None:
+        """Per vector, a propagate probability from 1/2, 3/4, 15/16, 63/64 and each bit
+        propagating with it: long runs with holes, and several runs at once, are common."""
+        span = _span(rows)
+        if span is None:
+            return
+        n = span.stop - span.start
+        q = np.array(PROPAGATE_ODDS)[self.rng.integers(0, len(PROPAGATE_ODDS), size=n)]
+        p = (self.rng.random((self.width, n)) < q[None, :]).astype(np.uint8)
+        self._set_propagate(bits, span, rows[span], p)
+
+    def _two_runs(self, bits, rows) -> None:
+        """Two propagate runs at once, starts and lengths drawn at random (log-spread lengths),
+        the rest of the bits uniform."""
+        span = _span(rows)
+        if span is None:
+            return
+        n, w = span.stop - span.start, self.width
+        cols = np.arange(w)[:, None]
+        p = np.zeros((w, n), dtype=bool)
+        for _ in range(2):
+            length = np.maximum(1, np.minimum(w, np.exp(self.rng.uniform(0, np.log(w + 1), n))
+                                              .astype(np.int64)))
+            start = self.rng.integers(0, w - length + 1)
+            p |= (cols >= start[None, :]) & (cols < (start + length)[None, :])
+        a = bits[self.operands[0].name][:, span]
+        keep = (self.rng.random((w, n)) < 0.5) & ~p  # outside the runs: uniform a XOR b
+        self._set_propagate(bits, span, rows[span], (p | keep).astype(np.uint8) if
+                            len(self.operands) > 1 else p.astype(np.uint8) | (a & ~p))
 
     def _specials(self, bits, rows) -> None:
         span = _span(rows)

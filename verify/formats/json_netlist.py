@@ -14,6 +14,7 @@ whose ``out`` is an output bit drives that bit. Gates may come in any order. An 
 from __future__ import annotations
 
 import json
+import re
 from typing import Any
 
 from verify.errors import InputError
@@ -33,12 +34,26 @@ def _no_duplicates(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
     return out
 
 
+#: most inputs one gate may have: far past any real gate, and short of the point where
+#: compiling the gate's expression exhausts Python's recursion limit
+MAX_GATE_INPUTS = 1024
+#: a port name is a plain identifier, so every writer can use it as it is
+_IDENTIFIER = re.compile(r"[A-Za-z_][A-Za-z0-9_]*")
+#: net names may hold brackets and dots (bit references, instance paths) but no white space,
+#: which would end a Verilog escaped identifier early, and no control characters
+_SPACE = re.compile(r"[\s\x00-\x1f\x7f]")
+_CONTROL = re.compile(r"[\x00-\x1f\x7f]")
+
+
 def parse(text: str, origin: str = "<json>") -> Netlist:
     """Parse JSON netlist text into a validated Netlist; every mistake is one InputError."""
     try:
         data = json.loads(text, object_pairs_hook=_no_duplicates)
     except json.JSONDecodeError as e:
         raise InputError(f"not valid JSON: {e.msg}", f"{origin}:{e.lineno}:{e.colno}") from None
+    except RecursionError:  # the decoder recurses once a bracket
+        raise InputError("brackets nested too deep to read (a netlist nests 4 deep)",
+                         origin) from None
     except InputError as e:
         raise e.located(origin) from None
     return from_dict(data, origin)
@@ -64,6 +79,8 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
     name = data.get("name", "design")
     if not isinstance(name, str) or not name:
         raise bad("'name' must be a non-empty string")
+    if _CONTROL.search(name):
+        raise bad(f"'name' {name!r} holds a control character (a line break?)")
     ports = {}
     port_lists = []
     for key in ("inputs", "outputs"):
@@ -72,6 +89,9 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
             raise bad(f"'{key}' must be an object mapping port names to widths")
         plist = []
         for pname, width in spec.items():
+            if not _IDENTIFIER.fullmatch(pname):
+                raise bad(f"{key}: port name {pname!r} is not an identifier (letters, digits and "
+                          f"_, not starting with a digit)")
             if isinstance(width, bool) or not isinstance(width, int) or width < 1:
                 raise bad(f"{key}.{pname}: width must be a whole number >= 1, got {width!r}")
             if width > MAX_PORT_WIDTH:
@@ -99,6 +119,12 @@ def from_dict(data: Any, origin: str = "<json>") -> Netlist:
         ins = g.get("in", [])
         if not isinstance(ins, list) or not all(isinstance(x, str) and x for x in ins):
             raise bad(f"{where} (out '{g['out']}'): 'in' must be a list of net names")
+        for net in (g["out"], *ins):
+            if _SPACE.search(net):
+                raise bad(f"{where}: net name {net!r} holds a space or control character")
+        if len(ins) > MAX_GATE_INPUTS:
+            raise bad(f"{where} (out '{g['out']}'): {len(ins):,} inputs; a gate takes at most "
+                      f"{MAX_GATE_INPUTS:,} (build wide functions from a tree of gates)")
         src = g.get("src")
         if src is not None and not isinstance(src, str):
             raise bad(f"{where}: 'src' must be a string")

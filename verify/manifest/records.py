@@ -79,6 +79,8 @@ class EntryRecord:
     counterexample: dict[str, Any] | None = None
     design_hash: str | None = None
     design: dict[str, Any] | None = None
+    #: the strength estimate of a tested verdict ({faults, caught, fraction, missed}), if asked
+    strength: dict[str, Any] | None = None
     checked_seconds: float = 0.0
     # ---- set by the run that reports it ----
     cached: bool = False

@@ -53,8 +53,7 @@ REQUIRES = ("complete", "tested")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "sources", "spec", "top", "params", "require", "method", "time_limit",
         "deliberately_broken", "include_dirs", "defines", "cells", "seed", "vectors",
-        "exhaustive_limit",
-        "settle_within", "delays")
+        "exhaustive_limit", "settle_within", "delays", "strength")
 REQUIRED = ("name", "sources", "spec")
 #: keys of earlier versions, refused with the key that replaced them
 RENAMED = {"files": ("sources", 'sources = ["rtl/adder.sv"]'),
@@ -89,6 +88,7 @@ class Entry:
     settle_within: float | None = None
     delays: str | None = None
     delays_hash: str | None = None
+    strength: int | None = None  # faults injected to estimate a sample's strength
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
     #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
@@ -110,7 +110,7 @@ class Entry:
                 "seed": self.seed, "vectors": self.vectors,
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
                 "include_dirs": list(self.include_dirs), "defines": dict(self.defines),
-                "cells": list(self.cells),
+                "cells": list(self.cells), "strength": self.strength,
                 **({"settle_within": self.settle_within, "delays": self.delays,
                     "delays_hash": self.delays_hash} if self.settle_within is not None else {})}
 
@@ -153,6 +153,8 @@ def load_manifest(path: str | Path | None = None) -> Manifest:
         raise InputError(f"cannot read the manifest: {e}", str(path)) from None
     try:
         data = _toml.loads(text)
+    except RecursionError:  # the TOML reader recurses once a nested array or table
+        raise InputError("arrays or tables nested too deep to read", str(path)) from None
     except _toml.TOMLDecodeError as e:
         msg = str(e)
         m = re.search(r"\(at line (\d+), column (\d+)\)", msg)
@@ -325,7 +327,8 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         include_dirs=tuple(include_dirs), defines=tuple(defines), cells=tuple(cells),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
         exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
-        key_where=tuple(key_where), settle_within=settle, delays=delays, delays_hash=delays_hash)
+        key_where=tuple(key_where), settle_within=settle, delays=delays, delays_hash=delays_hash,
+        strength=whole("strength", 1, 100_000))
 
 
 
@@ -432,7 +435,7 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path,
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
                        settle_within=entry.settle_within,
                        delays=entry.delays if entry.delays in (None, "unit")
-                       else str(root / entry.delays))
+                       else str(root / entry.delays), strength=entry.strength)
     except InputError as e:
         return error_record(entry, point, e, time.perf_counter() - started)
     data = result.to_json()
@@ -442,7 +445,8 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path,
                   "evidence": e["evidence"], **({"vectors": e["vectors"]} if "vectors" in e else {})}
                  for e in data["engines"]],
         coverage=result.coverage, counterexample=data.get("counterexample"),
-        design_hash=result.design_hash, design=data["design"], checked_seconds=result.seconds)
+        design_hash=result.design_hash, design=data["design"], strength=data.get("strength"),
+        checked_seconds=result.seconds)
 
 
 def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
@@ -455,7 +459,7 @@ def lost_record(entry: Entry, point: dict[str, int], why: str) -> EntryRecord:
 _OPTION_KEYS = {"top": "top", "params": "params", "defines": "defines",
                 "include_dirs": "include_dirs", "seed": "seed", "vectors": "vectors",
                 "timeout": "time_limit", "exhaustive_limit": "exhaustive_limit",
-                "engine": "method", "spec": "spec"}
+                "engine": "method", "spec": "spec", "strength": "strength"}
 
 
 def manifest_fault(e: InputError) -> tuple[str, str] | None:

@@ -12,7 +12,14 @@ gives:
 
 Shards of different designs (design hash), specs, parameter values or shard counts, a shard given
 twice, parts that overlap or do not match their index, and files that are not shard results are
-refused as bad input (exit 2).
+refused as bad input (exit 2). Each shard carries a binding hash over its design name, design
+hash, ports, spec and range (``verify.check.shard_binding``): a file whose name, port widths,
+spec or range was edited is refused.
+
+What a merge cannot do: tell a forged file from a real one. The files are plain JSON and the
+binding is a hash anyone can recompute; a merge checks that the shards are consistent with each
+other, not that the checks they report were run. Keep shard results where only your own jobs
+write them.
 """
 
 from __future__ import annotations
@@ -91,6 +98,7 @@ def merge(paths: Iterable[str | Path]) -> dict[str, Any]:
 def merge_results(items: Iterable[tuple[str, Any]]) -> dict[str, Any]:
     """Merge shard results already in memory: (where it came from, the result's JSON form) pairs,
     e.g. ``("shard 3/8", result.to_json())``. Same rules and same merged result as ``merge``."""
+    from verify.check import shard_binding
     from verify.engines.exhaustive import shard_range
 
     shards: list[tuple[str, dict, dict]] = []  # (where, shard, item)
@@ -126,6 +134,10 @@ def merge_results(items: Iterable[tuple[str, Any]]) -> dict[str, Any]:
         if (shard["first"], shard["last"], shard["vectors"]) != (lo, hi - 1, hi - lo):
             raise InputError(f"shard {k}/{count} covers vectors {shard['first']}..{shard['last']}, "
                              f"but shard {k} of {count} over 2^{bits} vectors is {lo}..{hi - 1}", where)
+        if shard.get("binding") != shard_binding(item["design"], item["spec"], shard):
+            raise InputError("the shard's binding hash does not match its design name, ports, "
+                             "spec or range: the file was edited, or made by another version",
+                             where)
     ordered = sorted(shards, key=lambda s: s[1]["first"])
     for (wa, a, _), (wb, b, _) in zip(ordered, ordered[1:]):
         if b["first"] <= a["last"]:

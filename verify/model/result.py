@@ -131,10 +131,15 @@ class ShardPart:
     first: int
     last: int
     vectors: int
+    #: a hash binding the shard to its design, ports, spec and range (see check.shard_binding)
+    binding: str | None = None
 
-    def to_json(self) -> dict[str, int]:
-        return {"index": self.index, "count": self.count, "first": self.first, "last": self.last,
-                "vectors": self.vectors}
+    def to_json(self) -> dict[str, Any]:
+        out: dict[str, Any] = {"index": self.index, "count": self.count, "first": self.first,
+                               "last": self.last, "vectors": self.vectors}
+        if self.binding is not None:
+            out["binding"] = self.binding
+        return out
 
 
 @dataclass
@@ -180,6 +185,9 @@ class CheckResult:
     shard: ShardPart | None = None
     #: the diagnosis of a failure, attached by verify.diagnosis
     diagnosis: Diagnosis | None = None
+    #: how strong the random sample was on injected faults: {faults, caught, fraction, missed}
+    #: (an estimate of the vectors' strength, never a proof; verify.engines.strength)
+    strength: dict[str, Any] | None = None
 
     @property
     def ok(self) -> bool:
@@ -239,6 +247,8 @@ class CheckResult:
             out["shard"] = self.shard.to_json()
         if self.diagnosis is not None:
             out.update(self.diagnosis.to_json())
+        if self.strength is not None:
+            out["strength"] = self.strength
         return out
 
 

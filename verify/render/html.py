@@ -65,6 +65,7 @@ section.entry.maybe { border-left-color: #b26a00; }
 .bits td.carrywrong { background: #f6b26b; font-weight: 700; }
 .bits td.none { color: #999; }
 ol.suspects li { margin-bottom: .4em; }
+p.finding { font-weight: bold; }
 .why { color: #444; }
 figure.cone { margin: .5em 0; overflow-x: auto; border: 1px solid #e0e0e0; padding: .3em; }
 figure.cone svg { max-width: 100%; height: auto; }
@@ -340,6 +341,8 @@ def _entry_section(record: EntryRecord, index: int, waveform: str | None) -> str
             out.append(f'<p class="note">{_e(d.problem)}</p>')
         else:
             det = d.details
+            if det.get("permutation_text"):
+                out.append(f'<p class="finding">{_e(det["permutation_text"])}</p>')
             if det.get("bits"):
                 out.append(_bit_table(det["bits"]))
             out.append(_suspects(d.suspects))

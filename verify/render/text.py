@@ -51,6 +51,10 @@ def render_text(result: CheckResult, *, params: dict | None = None,
     if diagnosis:
         lines.append("")
         lines.extend(diagnosis)
+    if result.strength is not None:
+        from verify.engines.strength import describe
+        lines.append("")
+        lines.extend(describe(result.strength))
     lines.append("")
     lines.append(f"note: {SCOPE_NOTE}")
     return "\n".join(lines)
