@@ -7,9 +7,13 @@
                           spec="{cout, sum} = a + b + cin")
     assert result.ok, result.coverage
 
-``engine="auto"`` (the default) runs random vectors first, to find a bug fast, then the exhaustive
-engine when the input bits fit its limit, else z3 within the time limit. If that last engine gives
-no answer, the verdict is undecided: passing random vectors never stands in for a proof.
+``engine="auto"`` (the default) is a portfolio: random vectors first, to find a bug fast; then the
+exhaustive engine when the input bits fit its limit; otherwise the sweeping engine (internal
+equivalences), then the BDD engine, then z3, each only if the one before gave no answer, all
+within one CPU-time limit. If none answers, the verdict is undecided: passing random vectors
+never stands in for a proof. ``cross_check=True`` asks a second, independent complete engine to
+agree with the first before ``proven`` (or a complete engine's failure) is given; if they
+disagree, ``EngineDisagreement`` is raised (a bug in this tool, never a verdict).
 """
 
 from __future__ import annotations
@@ -20,11 +24,18 @@ from pathlib import Path
 from typing import Callable
 
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT, Options
-from verify.errors import InputError
+from verify.errors import EngineDisagreement, InputError
 from verify.model.netlist import Netlist
 from verify.model.result import CheckResult, EngineOutcome, Require, Verdict, combine
 
-ENGINE_NAMES = ("auto", "exhaustive", "smt", "random")
+#: engine name -> module under verify/engines/ with run(design, spec, options)
+ENGINES = {"exhaustive": "exhaustive", "smt": "smt", "random": "randomized", "sweep": "sweep",
+           "bdd": "bdd"}
+ENGINE_NAMES = ("auto", *ENGINES)
+#: engines that decide the whole input space (a pass is proven or exhaustive)
+COMPLETE_ENGINES = ("exhaustive", "sweep", "bdd", "smt")
+#: the order auto tries complete engines in, past the exhaustive limit
+PORTFOLIO = ("sweep", "bdd", "smt")
 #: how many random vectors auto runs before the complete engine
 AUTO_RANDOM_VECTORS = 20_000
 #: the longest time limit accepted (a week): past it a limit means nothing
@@ -32,8 +43,16 @@ MAX_TIMEOUT = 7 * 24 * 3600
 
 
 def _engine(name: str):
-    from verify.engines import exhaustive, randomized, smt
-    return {"exhaustive": exhaustive.run, "smt": smt.run, "random": randomized.run}[name]
+    import importlib
+    return importlib.import_module(f"verify.engines.{ENGINES[name]}").run
+
+
+def _partner(name: str, design: Netlist, exhaustive_limit: int) -> str:
+    """An independent complete engine to confirm ``name``'s answer."""
+    for other in ("sweep", "bdd", "smt"):
+        if other != name:
+            return other
+    raise AssertionError(name)  # pragma: no cover
 
 
 def resolve_spec(design: Netlist, spec=None):
@@ -77,12 +96,15 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
           require: str | Require = Require.TESTED,
           exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS, shrink: bool = True,
           shard: tuple[int, int] | None = None,
-          progress: Callable[[str, int, int], None] | None = None) -> CheckResult:
+          progress: Callable[[str, int, int], None] | None = None,
+          cross_check: bool = False) -> CheckResult:
     """Establish what can be established about ``design`` against ``spec``.
 
     ``spec`` is equation text, a ``verify.spec.Spec`` or None (inferred from port names).
     ``require="complete"`` makes a result that is only ``tested`` fail (exit code 3).
     ``shard=(k, n)`` limits the exhaustive engine to the k-th of n disjoint parts.
+    ``cross_check=True`` makes two independent complete engines agree before a complete verdict
+    (raises ``EngineDisagreement`` when they do not).
     Raises InputError for bad input; never returns a passing verdict no engine established.
     """
     started = time.perf_counter()
@@ -113,14 +135,34 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         return Options(**base)
 
     outcomes: list[EngineOutcome] = []
+    budget_start = time.process_time()
+
+    def remaining() -> float:
+        return max(0.001, timeout - (time.process_time() - budget_start))
+
     if engine == "auto":
         first = min(vectors, AUTO_RANDOM_VECTORS) if vectors else AUTO_RANDOM_VECTORS
         outcomes.append(_engine("random")(design, the_spec, options("random", vectors=first)))
         if outcomes[-1].status != "fail":
-            final = "exhaustive" if design.input_width <= exhaustive_limit else "smt"
-            outcomes.append(_engine(final)(design, the_spec, options(final)))
+            chain = ("exhaustive",) if design.input_width <= exhaustive_limit else PORTFOLIO
+            for name in chain:
+                outcomes.append(_engine(name)(design, the_spec, options(name, timeout=remaining())))
+                if outcomes[-1].status in ("pass", "fail"):
+                    break
     else:
         outcomes.append(_engine(engine)(design, the_spec, options(engine)))
+    if cross_check:
+        decided = next((e for e in reversed(outcomes)
+                        if e.engine in COMPLETE_ENGINES and e.status in ("pass", "fail")), None)
+        if decided is not None and shard is None:
+            other = _partner(decided.engine, design, exhaustive_limit)
+            second = _engine(other)(design, the_spec, options(other))
+            outcomes.append(second)
+            if second.status in ("pass", "fail") and second.status != decided.status:
+                raise EngineDisagreement(decided, second)
+            if second.status != decided.status and decided.status == "pass":
+                # the second engine gave no answer: the proof is not cross-checked
+                outcomes[outcomes.index(decided)] = _unconfirmed(decided, second)
 
     verdict, cex = combine(outcomes)
     if engine == "auto" and verdict is Verdict.TESTED:
@@ -143,3 +185,10 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         gate_count=len(design.gates), spec=the_spec.text, spec_inferred=the_spec.inferred,
         engines=outcomes, verdict=verdict, require=require, counterexample=cex,
         seconds=time.perf_counter() - started, origin=design.origin, extras=extras)
+
+
+def _unconfirmed(first: EngineOutcome, second: EngineOutcome) -> EngineOutcome:
+    """A pass that a required cross-check could not confirm: undecided, with both evidences."""
+    return EngineOutcome(first.engine, "undecided", first.seconds,
+                         f"{first.evidence}; not confirmed: the cross-check by {second.engine} gave "
+                         f"no answer", first.vectors, None, dict(first.details, unconfirmed=True))

@@ -32,3 +32,15 @@ class NetlistError(InputError):
 
 class SpecError(InputError):
     """A spec that cannot be parsed or does not fit the design."""
+
+
+class EngineDisagreement(Exception):
+    """Two complete engines reached opposite answers on the same check: a bug in this tool, never
+    a verdict and never bad input. Carries both outcomes (``first``, ``second``)."""
+
+    def __init__(self, first, second):
+        super().__init__(f"engines disagree: {first.engine} says {first.status} "
+                         f"({first.evidence}); {second.engine} says {second.status} "
+                         f"({second.evidence})")
+        self.first = first
+        self.second = second

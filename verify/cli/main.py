@@ -19,7 +19,7 @@ from verify.errors import InputError
 from verify.formats import VERILOG_SUFFIXES
 from verify.model.result import Verdict, worst_exit_code
 
-ENGINES = ("auto", "exhaustive", "smt", "random")
+from verify.check import ENGINE_NAMES as ENGINES  # noqa: E402 - one list of engine names
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"], "max_content_width": 100})
@@ -49,6 +49,9 @@ def main(argv: list[str] | None = None) -> None:
         sys.exit(2)
     except InputError as e:
         click.echo(f"error: {e}", err=True)
+        sys.exit(2)
+    except Exception as e:  # a bug in this tool (e.g. EngineDisagreement): never exit 1 (= fail)
+        click.echo(f"internal error: {type(e).__name__}: {e}", err=True)
         sys.exit(2)
     sys.exit(code or 0)
 
@@ -153,7 +156,10 @@ def verilog_options(f):
 @click.option("--spec", help='What the outputs must equal, e.g. "{cout, sum} = a + b + cin". '
               "Default: inferred from port names and widths.")
 @click.option("--engine", type=click.Choice(ENGINES), default="auto", show_default=True,
-              help="auto: random vectors first, then exhaustive if the inputs fit, else smt.")
+              help="auto: random vectors first, then exhaustive if the inputs fit, else sweep, "
+              "bdd, smt in turn.")
+@click.option("--cross-check", is_flag=True, help="Two independent complete engines must agree "
+              "before a complete verdict.")
 @click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
               help="Seed of the random engine.")
 @click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
@@ -176,7 +182,7 @@ def verilog_options(f):
 @click.option("--dot", "dot_path", metavar="FILE", help="On a failure, write the fan-in cone of the "
               "first wrong output as Graphviz DOT (and SVG when 'dot' is installed).")
 @click.option("--no-diagnose", is_flag=True, help="On a failure, skip the suspects and the waveform.")
-def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, top,
+def check_cmd(paths, spec, engine, cross_check, seed, vectors, timeout, require, exhaustive_limit, shard, top,
               params, include_dirs, defines, as_json, log_dir, no_log, vcd_path, dot_path,
               no_diagnose):
     """Check DESIGN (a JSON netlist, Verilog files, or a folder of designs) against a spec."""
@@ -206,7 +212,7 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
                 result = check(design, the_spec, engine=engine, seed=seed, vectors=vectors,
                                timeout=timeout, require=require,
                                exhaustive_limit=exhaustive_limit, shard=shard_t,
-                               progress=_progress(as_json))
+                               progress=_progress(as_json), cross_check=cross_check)
                 lines = [] if no_diagnose else diagnose.attach(
                     result, design, the_spec, vcd_path=vcd_path, dot_path=dot_path,
                     log_dir=None if no_log else log_dir)

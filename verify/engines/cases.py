@@ -65,7 +65,11 @@ def find_addition(design, spec, fixed: Mapping[str, int], seed: int = 1) -> Addi
     ones = [p for p in design.inputs if p.width == 1 and p.name not in fixed]
     vectors = _sample(design, fixed, 48, seed)
     values = [spec.evaluate(v) for v in vectors]
-    out_bits = [(p.name, i) for p in design.outputs for i in range(p.width)]
+    # one word per output bit: bit v of the word is that output bit's value in vector v
+    held_words = set()
+    for p in design.outputs:
+        for i in range(p.width):
+            held_words.add(sum((val[p.name] >> i & 1) << v for v, val in enumerate(values)))
     best: Addition | None = None
     cins: list = [0, 1] + [(p.name, inv) for p in ones for inv in (False, True)]
     for i, xa in enumerate(wide):
@@ -73,19 +77,17 @@ def find_addition(design, spec, fixed: Mapping[str, int], seed: int = 1) -> Addi
             if xb.width != xa.width:
                 continue
             n = xa.width
+            mask = (1 << n) - 1
             for ia, ib, c in product((False, True), (False, True), cins):
-                mask = (1 << n) - 1
                 sums = []
                 for v in vectors:
                     cv = c if isinstance(c, int) else (v[c[0]] ^ int(c[1]))
-                    sums.append(((v[xa.name] ^ (mask if ia else 0)) + (v[xb.name] ^ (mask if ib else 0)) + cv))
-                held = set()
+                    sums.append((v[xa.name] ^ (mask if ia else 0))
+                                + (v[xb.name] ^ (mask if ib else 0)) + cv)
+                score = 0
                 for k in range(n + 1):
-                    for port, bit in out_bits:
-                        if all((s >> k & 1) == (val[port] >> bit & 1) for s, val in zip(sums, values)):
-                            held.add(k)
-                            break
-                score = len(held)
+                    word = sum((s >> k & 1) << v for v, s in enumerate(sums))
+                    score += word in held_words
                 if score >= n and (best is None or score > best.matched):
                     best = Addition(n, (xa.name, ia), (xb.name, ib), c, score)
     return best

@@ -47,11 +47,12 @@ except ImportError:  # pragma: no cover - Python 3.10
     import tomli as _toml  # type: ignore[no-redef]
 
 MANIFEST_NAME = "verify.toml"
-ENGINES = ("auto", "exhaustive", "smt", "random")
+from verify.check import ENGINE_NAMES as ENGINES  # noqa: E402 - one list of engine names
 REQUIRES = ("complete", "tested")
 EXPECTS = ("pass", "fail")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "files", "spec", "top", "params", "require", "engine", "timeout", "expect",
+        "cross_check",
         "include_dirs", "defines", "seed", "vectors", "exhaustive_limit")
 REQUIRED = ("name", "files", "spec")
 _VERILOG = (".v", ".sv", ".vh", ".svh")
@@ -77,6 +78,8 @@ class Entry:
     seed: int = 1
     vectors: int | None = None
     exhaustive_limit: int | None = None
+    #: two independent complete engines must agree before a complete verdict
+    cross_check: bool = False
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
     #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
@@ -97,6 +100,7 @@ class Entry:
         return {"engine": self.engine, "require": self.require, "timeout": self.timeout,
                 "seed": self.seed, "vectors": self.vectors,
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
+                "cross_check": self.cross_check,
                 "include_dirs": list(self.include_dirs), "defines": dict(self.defines)}
 
 
@@ -284,6 +288,9 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         raise bad("timeout", f"must be a positive number of seconds, got {timeout!r}")
 
     seed = whole("seed", 0)
+    cross_check = table.get("cross_check", False)
+    if not isinstance(cross_check, bool):
+        raise bad("cross_check", f"must be true or false, got {cross_check!r}")
     key_where = []
     for key in table:
         n = _key_line(lines, start, end, key) if start else None
@@ -295,7 +302,7 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         timeout=float(timeout), expect=choice("expect", EXPECTS, "pass"),
         include_dirs=tuple(include_dirs), defines=tuple(defines),
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
-        exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
+        exhaustive_limit=whole("exhaustive_limit", 1, 40), cross_check=cross_check, where=where,
         key_where=tuple(key_where))
 
 
@@ -369,7 +376,8 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path) -> dict[s
                       defines=dict(entry.defines) or None)
         result = check(design, entry.spec, engine=entry.engine, seed=entry.seed,
                        vectors=entry.vectors, timeout=entry.timeout, require=entry.require,
-                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS)
+                       exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
+                       cross_check=entry.cross_check)
     except InputError as e:
         fault = manifest_fault(e)
         return {**base, "verdict": "error",
