@@ -74,7 +74,8 @@ def orders(design, spec) -> list[tuple[str, list[str]]]:
                 ("interleaved, least significant first", ones + rest + pairs)]
     # no addition found: interleave every port by bit index
     width = max((p.width for p in design.inputs), default=0)
-    lsb = [p.bits[i] for i in range(width) for p in design.inputs if i < p.width]
+    bits = {p.name: list(p.bits) for p in design.inputs}
+    lsb = [bits[p.name][i] for i in range(width) for p in design.inputs if i < p.width]
     return [("by bit index, most significant first", list(reversed(lsb))),
             ("by bit index, least significant first", lsb)]
 

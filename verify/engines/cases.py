@@ -68,8 +68,7 @@ def find_addition(design, spec, fixed: Mapping[str, int], seed: int = 1) -> Addi
     # one word per output bit: bit v of the word is that output bit's value in vector v
     held_words = set()
     for p in design.outputs:
-        for i in range(p.width):
-            held_words.add(sum((val[p.name] >> i & 1) << v for v, val in enumerate(values)))
+        held_words.update(_columns([val[p.name] for val in values], p.width))
     best: Addition | None = None
     cins: list = [0, 1] + [(p.name, inv) for p in ones for inv in (False, True)]
     for i, xa in enumerate(wide):
@@ -84,22 +83,26 @@ def find_addition(design, spec, fixed: Mapping[str, int], seed: int = 1) -> Addi
                     cv = c if isinstance(c, int) else (v[c[0]] ^ int(c[1]))
                     sums.append((v[xa.name] ^ (mask if ia else 0))
                                 + (v[xb.name] ^ (mask if ib else 0)) + cv)
-                score = 0
-                for k in range(n + 1):
-                    word = sum((s >> k & 1) << v for v, s in enumerate(sums))
-                    score += word in held_words
+                score = sum(w in held_words for w in _columns(sums, n + 1))
                 if score >= n and (best is None or score > best.matched):
                     best = Addition(n, (xa.name, ia), (xb.name, ib), c, score)
     return best
 
 
-def control_inputs(design, spec) -> list[str]:
+def _columns(numbers: list[int], width: int) -> list[int]:
+    """Bit-slice: word k has bit v set when bit k of numbers[v] is set (k < width)."""
+    rows = [format(x & ((1 << width) - 1), f"0{width}b") for x in numbers]
+    # rows are MSB first; column k from the right is bit k; vector v is bit v of the word
+    return [int("".join(col)[::-1], 2) for col in zip(*rows)][::-1]
+
+
+def control_inputs(design, spec, seed: int = 1) -> list[str]:
     """One-bit inputs to split into cases: none when the spec is a plain sum with these inputs
     free (a carry-in then is part of the sum), else every one-bit input (up to ``MAX_SPLIT``)."""
     ones = [p.name for p in design.inputs if p.width == 1]
     if not ones or len(ones) > MAX_SPLIT:
         return []
-    whole = find_addition(design, spec, {})
+    whole = find_addition(design, spec, {}, seed)
     outputs = sum(p.width for p in design.outputs)
     if whole is not None and whole.matched >= min(outputs, whole.width + 1):
         return []

@@ -24,6 +24,9 @@ from verify.model.ops import OPS
 #: free variables up to which a query is decided by evaluating every assignment
 EXHAUSTIVE_VARS = 12
 SOLVER = "cadical195"
+#: queries up to this many variables run without a stop timer (they take milliseconds; the
+#: caller reads the clock between queries)
+TIMER_VARS = 20_000
 
 
 @dataclass
@@ -118,11 +121,11 @@ class Circuit:
         clauses += [[u + 1, v + 1], [-(u + 1), -(v + 1)]]
         with Solver(name=SOLVER, bootstrap_with=clauses) as solver:
             timer = None
-            if seconds is not None:
+            if seconds is not None and top > TIMER_VARS:
                 timer = threading.Timer(max(0.001, seconds), solver.interrupt)
                 timer.start()
             try:
-                result = solver.solve_limited(expect_interrupt=seconds is not None)
+                result = solver.solve_limited(expect_interrupt=timer is not None)
             finally:
                 if timer is not None:
                     timer.cancel()

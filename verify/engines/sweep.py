@@ -6,8 +6,9 @@ stated over the bit ranges of an addition. The design and the spec's reference n
 addition X + Y + cin (``cases.find_addition``), each net is compared, by its simulated values,
 with the functions an adder computes over a range of bit positions j..i, chosen from the net's
 structural support: the operand bits, the group generate G[i:j] (the carry out of bits j..i;
-j = -1 takes in the carry-in, so G[i:-1] is the carry into bit i+1) and the group propagate
-P[i:j], or their complements. A net that matches is then proven to compute that function, in
+j = -1 takes in the carry-in, so G[i:-1] is the carry into bit i+1), the group propagate
+P[i:j], and T[i:j] = G | P (the carry out when a carry enters: carry-select and conditional-sum
+blocks, Ling's t = a | b), or their complements. A net that matches is then proven to compute that function, in
 topological order, by a query in which the nets already proven are free cut variables. Each
 query is stated over disjoint bit segments: a segment of one bit uses the real operand bits,
 a longer one a free group generate G and propagate P with not both 1. Every such assignment is
@@ -29,10 +30,10 @@ import time
 
 from verify.engines import Options, confirmed
 from verify.engines.cases import Addition, cases, control_inputs, find_addition
-from verify.engines.query import EXHAUSTIVE_VARS, SOLVER, Circuit
+from verify.engines.query import SOLVER, Circuit
 from verify.model.netlist import CONST0, CONST1
 from verify.model.result import EngineOutcome
-from verify.sim import Simulator
+from verify.model.ops import OPS
 
 #: simulation vectors used to find candidate equivalences
 SIGNATURE_VECTORS = 256
@@ -72,13 +73,14 @@ class _Case:
                     self.constant[b] = fixed[p.name] >> i & 1
         if add is not None:
             for role, (port, inv) in (("x", add.x), ("y", add.y)):
-                for i, b in enumerate(design.ports[port].bits):
+                for i, b in enumerate(list(design.ports[port].bits)):
                     self.position[b] = (role, i, inv)
             if not isinstance(add.cin, int):
                 self.position[design.ports[add.cin[0]].bits[0]] = ("c", -1, add.cin[1])
         self.has_cin = add is not None and add.cin != 0
         self.proven: dict[str, tuple] = {}  # net -> (meaning, negated)
         self.ticks = 0
+        self.remaining = options.timeout
 
     # ---- simulation and candidates ------------------------------------------------------------
     def simulate(self) -> None:
@@ -94,23 +96,21 @@ class _Case:
                     words[b] = rng.getrandbits(n)
         if self.add is not None:  # long carry chains: y near ~x on a quarter of the vectors
             chain = int("0001" * (n // 4), 2)
+            xbits = self.design.ports[self.add.x[0]].bits
+            ybits = self.design.ports[self.add.y[0]].bits
             for i in range(self.add.width):
-                xb = self.design.ports[self.add.x[0]].bits[i]
-                yb = self.design.ports[self.add.y[0]].bits[i]
+                xb, yb = xbits[i], ybits[i]
                 if xb in self.constant or yb in self.constant:
                     continue
                 xv = words[xb] ^ (mask if self.add.x[1] else 0)
                 flip = rng.getrandbits(n) & rng.getrandbits(n) & rng.getrandbits(n)
+                flip &= rng.getrandbits(n) & rng.getrandbits(n)
                 want = (xv ^ mask ^ flip) ^ (mask if self.add.y[1] else 0)
                 words[yb] = (words[yb] & ~chain) | (want & chain)
         self.sig: dict[str, int] = dict(words)
         self.sig[CONST0], self.sig[CONST1] = 0, mask
-        for tag, nl in (("d:", self.design), ("r:", self.reference)):
-            ins = set(nl.input_bits)
-            values = Simulator(nl).run_all([words[b] for b in nl.input_bits], mask)
-            for net, w in values.items():
-                if net not in ins:
-                    self.sig[tag + net] = w
+        for key, (op, args) in self.gate.items():  # one pass, no compiling: run once
+            self.sig[key] = OPS[op].evaluate([self.sig[a] for a in args], mask) & mask
         # the operand words and the bit generate/propagate of each position
         self.xw: dict[int, int] = {}
         self.yw: dict[int, int] = {}
@@ -180,20 +180,21 @@ class _Case:
         sig = self.sig[net]
         mask = self.mask
         found = []
-        if sig == 0 or sig == mask:
-            found.append((("K", sig & 1), False))
+        constant = [(("K", sig & 1), False)] if sig == 0 or sig == mask else []
         if span is None or self.add is None or span[2]:
-            return found
+            return constant
         lo, hi = span[0], span[1]
         options = []
         if lo == hi and lo >= 0:
             options += [(("X", lo), self.xw.get(lo)), (("Y", lo), self.yw.get(lo)),
-                        (("P", lo, lo), self.P(lo, lo)), (("G", lo, lo), self.G(lo, lo))]
+                        (("P", lo, lo), self.P(lo, lo)), (("G", lo, lo), self.G(lo, lo)),
+                        (("T", lo, lo), self.G(lo, lo) | self.P(lo, lo))]
         elif hi >= 0:
             split = next((s for s in splits if lo < s <= hi), None)
             options.append((("G", hi, lo), self.G(hi, lo, split)))
             if lo >= 0:
                 options.append((("P", hi, lo), self.P(hi, lo, split)))
+                options.append((("T", hi, lo), self.G(hi, lo) | self.P(hi, lo)))
         if lo == 0 and self.add.cin == 1:
             options.append((("G", hi, -1), self.G(hi, -1)))  # a constant carry-in of 1
         for meaning, w in options:
@@ -203,7 +204,7 @@ class _Case:
                 found.append((meaning, False))
             elif w ^ mask == sig:
                 found.append((meaning, True))
-        return found
+        return found + constant  # a constant is the last guess for a net with operand support
 
     # ---- queries --------------------------------------------------------------------------
     def cone(self, roots, limit=None):
@@ -235,7 +236,7 @@ class _Case:
         kind = meaning[0]
         if kind in ("X", "Y"):
             return meaning[1], meaning[1]
-        if kind in ("G", "P"):
+        if kind in ("G", "P", "T"):
             return meaning[2], meaning[1]
         return None
 
@@ -298,6 +299,8 @@ class _Case:
                 for _, p in parts[1:]:
                     acc = c.gate("and", (p, acc))
                 return acc
+            if kind == "T":  # the carry out of the range when a carry enters it: G | P
+                return c.gate("or", (meaning_node(("G", hi, lo)), meaning_node(("P", hi, lo))))
             acc = parts[0][0]
             for g, p in parts[1:]:
                 acc = c.gate("or", (g, c.gate("and", (p, acc))))
@@ -326,12 +329,13 @@ class _Case:
         self.operand_nodes = operand
         return c, node, meaning_node
 
-    def left(self, solver: bool = True) -> float | None:
-        """CPU seconds left for a solver call (the clock is read every few queries only)."""
+    def left(self, c: Circuit | None = None) -> float:
+        """CPU seconds left (raises _Stop past the limit). The clock is read for every large
+        query and every 64th small one; small queries take milliseconds."""
         self.ticks += 1
-        if not solver and self.ticks % 64:
-            return None
-        remaining = self.deadline - time.process_time()
+        if c is not None and len(c) < 2000 and self.ticks % 512:
+            return self.remaining
+        remaining = self.remaining = self.deadline - time.process_time()
         if remaining <= 0:
             raise _Stop()
         return remaining
@@ -346,7 +350,7 @@ class _Case:
         c, node, meaning_node = self.build(inner, cuts, raw, [meaning])
         m = meaning_node(meaning)
         target = c.gate("not", (m,)) if neg else m
-        answer = c.differ(node[net], target, self.left(len(c.free) > EXHAUSTIVE_VARS))
+        answer = c.differ(node[net], target, self.left(c))
         self.stats.record(answer)
         if answer.status == "unknown":
             self.left()
@@ -374,7 +378,7 @@ class _Case:
             splits = []
             for a in args:
                 pm = self.proven.get(a)
-                if pm is not None and pm[0][0] in ("G", "P"):
+                if pm is not None and pm[0][0] in ("G", "P", "T"):
                     splits.append(pm[0][2])
             for meaning, neg in self.candidates(net, span[net], splits):
                 self.stats.candidates += 1
@@ -396,7 +400,7 @@ class _Case:
                 continue
             inner, cuts, raw = self.cone([d, r])
             c, node, _ = self.build(inner, cuts, raw, [])
-            answer = c.differ(node[d], node[r], self.left(len(c.free) > EXHAUSTIVE_VARS))
+            answer = c.differ(node[d], node[r], self.left(c))
             self.stats.record(answer)
             if answer.status == "unknown":
                 self.left()
@@ -439,10 +443,9 @@ class _Case:
         return values
 
     def _bit_of(self, b: str) -> tuple[str, int]:
-        for p in self.design.inputs:
-            if b in p.bits:
-                return p.name, p.bits.index(b)
-        raise KeyError(b)
+        if not hasattr(self, "_bits"):
+            self._bits = {x: (p.name, i) for p in self.design.inputs for i, x in enumerate(p.bits)}
+        return self._bits[b]
 
 
 class _Stats:
@@ -463,7 +466,7 @@ def run(design, spec, options: Options) -> EngineOutcome:
     started_wall, started = time.perf_counter(), time.process_time()
     deadline = started + options.timeout
     reference = spec.reference()
-    split = control_inputs(design, spec)
+    split = control_inputs(design, spec, options.seed)
     stats = _Stats()
     additions = []
     details: dict = {"solver": SOLVER, "time": "cpu"}
