@@ -25,6 +25,34 @@ from verify.engines import Options, smt, sweep  # noqa: E402
 from verify.library.architectures import ARCHITECTURES, generate  # noqa: E402
 
 
+class PlainSum:
+    """A stand-in for ``Spec`` of ``{cout, sum} = a + b + cin`` at widths the spec language still
+    refuses (its 4,096-bit value limit): evaluates on Python integers, and its reference netlist
+    is the library's ripple adder (the spec's own gate translation is a ripple adder too)."""
+
+    def __init__(self, width: int):
+        self.width = width
+        self.text = "{cout, sum} = a + b + cin"
+        self.inferred = False
+        self._ref = None
+
+    def evaluate(self, inputs):
+        total = inputs["a"] + inputs["b"] + inputs["cin"]
+        return {"sum": total & ((1 << self.width) - 1), "cout": total >> self.width & 1}
+
+    def reference(self):
+        if self._ref is None:
+            self._ref = generate("ripple", self.width)
+        return self._ref
+
+
+def spec_for(design, width):
+    try:
+        return resolve_spec(design, None), True
+    except Exception:  # noqa: BLE001 - the spec's width limit; fall back to the stand-in
+        return PlainSum(width), False
+
+
 def timed(fn):
     c, w = time.process_time(), time.perf_counter()
     out = fn()
@@ -47,16 +75,16 @@ def main() -> None:
     for arch in args.archs.split(","):
         for width in widths:
             design = generate(arch, width)
-            spec = resolve_spec(design, None)
+            spec, real = spec_for(design, width)
             o, sweep_cpu, _ = timed(lambda: sweep.run(design, spec, Options(timeout=600)))
-            try:
+            if real:
                 r, auto_cpu, auto_wall = timed(lambda: check(design, spec))
                 verdict = r.verdict.value
-            except Exception as e:  # noqa: BLE001 - a refusal is reported, not hidden
+            else:  # check() refuses the spec at this width: the sweep engine alone, stand-in spec
                 auto_cpu = auto_wall = float("nan")
-                verdict = type(e).__name__
+                verdict = "(no spec)"
             miter = ""
-            if width == 256 or width == min(widths):
+            if real and (width == 256 or width == min(widths)):
                 m, mc, mw = timed(lambda: smt.run(design, spec, Options(timeout=args.miter_limit)))
                 miter = f"{mw:.1f} s" if m.status == "pass" else f"over {args.miter_limit:g} s"
             print(f"{arch:<16} {width:>6} {sweep_cpu:>11.2f} {auto_cpu:>10.2f} {auto_wall:>11.2f} "
