@@ -24,6 +24,8 @@ from verify.model.result import EngineOutcome
 
 #: live BDD nodes allowed before an order is given up
 MAX_NODES = 4_000_000
+#: bytes CUDD may use: one operation that blows up stops here (checks run between gates)
+MAX_MEMORY = 768 * 2 ** 20
 _CHECK_EVERY = 128
 
 
@@ -114,9 +116,9 @@ def run(design, spec, options: Options) -> EngineOutcome:
     for name, order in orders(design, spec):
         bdd, package = _manager()
         try:
+            bdd.configure(reordering=False, max_memory=MAX_MEMORY)
+        except Exception:  # pragma: no cover - autoref has no memory option
             bdd.configure(reordering=False)
-        except Exception:  # pragma: no cover - autoref has the same option
-            pass
         names = [f"v{k}" for k in range(len(order))]
         bdd.declare(*names)
         var = {b: _Node(bdd, bdd.var(n)) for b, n in zip(order, names)}
@@ -124,10 +126,12 @@ def run(design, spec, options: Options) -> EngineOutcome:
         try:
             _build(bdd, design, var, "d:", deadline, MAX_NODES, built)
             _build(bdd, reference, var, "r:", deadline, MAX_NODES, built)
-        except _Limit as stop:
-            tried.append(f"{name}: {'CPU-time limit' if stop.why == 'time' else 'node limit'}")
+        except (_Limit, RuntimeError, MemoryError) as stop:
+            why = stop.why if isinstance(stop, _Limit) else "memory"
+            tried.append(f"{name}: " + {"time": "CPU-time limit", "nodes": "node limit",
+                                        "memory": "memory limit"}[why])
             del built, var
-            if stop.why == "time":
+            if why == "time":
                 break
             continue
         details = {"package": package, "order": name, "nodes": len(bdd), "time": "cpu",

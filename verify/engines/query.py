@@ -16,7 +16,7 @@ a satisfying assignment ({free variable: 0/1}) or ``"unknown"`` (the solver was 
 
 from __future__ import annotations
 
-import threading
+import time
 from dataclasses import dataclass, field
 
 from verify.model.ops import OPS
@@ -24,9 +24,8 @@ from verify.model.ops import OPS
 #: free variables up to which a query is decided by evaluating every assignment
 EXHAUSTIVE_VARS = 12
 SOLVER = "cadical195"
-#: queries up to this many variables run without a stop timer (they take milliseconds; the
-#: caller reads the clock between queries)
-TIMER_VARS = 20_000
+#: conflicts in a solver's first round (then doubled each round until the time limit)
+FIRST_BUDGET = 20_000
 
 
 @dataclass
@@ -120,15 +119,17 @@ class Circuit:
         clauses += [[-(a + 1), -(b + 1)] for a, b in self.exclusions]
         clauses += [[u + 1, v + 1], [-(u + 1), -(v + 1)]]
         with Solver(name=SOLVER, bootstrap_with=clauses) as solver:
-            timer = None
-            if seconds is not None and top > TIMER_VARS:
-                timer = threading.Timer(max(0.001, seconds), solver.interrupt)
-                timer.start()
-            try:
-                result = solver.solve_limited(expect_interrupt=timer is not None)
-            finally:
-                if timer is not None:
-                    timer.cancel()
+            # CaDiCaL in python-sat ignores interrupt(); a conflict budget stops it, so the
+            # search runs in rounds of growing budgets with the CPU clock read between rounds
+            deadline = None if seconds is None else time.process_time() + seconds
+            budget = FIRST_BUDGET
+            while True:
+                if deadline is not None:
+                    solver.conf_budget(budget)
+                result = solver.solve_limited()
+                if result is not None or deadline is None or time.process_time() >= deadline:
+                    break
+                budget = min(budget * 2, 1_000_000)
             if result is None:
                 return Answer("unknown", solver_call=True, variables=top)
             if not result:

@@ -30,7 +30,7 @@ import time
 
 from verify.engines import Options, confirmed
 from verify.engines.cases import Addition, cases, control_inputs, find_addition
-from verify.engines.query import SOLVER, Circuit
+from verify.engines.query import EXHAUSTIVE_VARS, SOLVER, Circuit
 from verify.model.netlist import CONST0, CONST1
 from verify.model.result import EngineOutcome
 from verify.model.ops import OPS
@@ -333,8 +333,8 @@ class _Case:
         """CPU seconds left (raises _Stop past the limit). The clock is read for every large
         query and every 64th small one; small queries take milliseconds."""
         self.ticks += 1
-        if c is not None and len(c) < 2000 and self.ticks % 512:
-            return self.remaining
+        if c is not None and len(c.free) <= EXHAUSTIVE_VARS and self.ticks % 512:
+            return self.remaining  # decided by evaluation in microseconds: no clock read
         remaining = self.remaining = self.deadline - time.process_time()
         if remaining <= 0:
             raise _Stop()
