@@ -34,6 +34,14 @@ DESIGNS = sorted((ROOT / "designs").glob("*.json")) + sorted((ROOT / "designs").
     + sorted((ROOT / "designs" / "broken").iterdir())
 
 
+@pytest.fixture(autouse=True)
+def _slow_only_when_asked(request):
+    """Tests marked slow run only when the marker expression asks for them (-m slow)."""
+    if request.node.get_closest_marker("slow") and \
+            "slow" not in (request.config.getoption("markexpr") or "").replace("not slow", ""):
+        pytest.skip("slow: run with -m slow")
+
+
 def _truth(design, spec, width_limit=18, z3_seconds=60.0) -> str | None:
     """pass/fail from exhaustive simulation when the inputs are few, else from z3."""
     if design.input_width <= width_limit:
