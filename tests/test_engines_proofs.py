@@ -348,3 +348,14 @@ def test_1024_bit_kogge_stone_is_proven_by_auto_within_the_default_limit():
 def test_3000_bit_ripple_no_longer_crashes_the_simulator():
     r = verify.check(generate("ripple", 3000), engine="random", vectors=1000)
     assert r.verdict is Verdict.TESTED
+
+
+def test_an_engine_disagreement_on_the_command_line_exits_2_not_1(monkeypatch, capsys):
+    from verify.cli.main import main
+    from verify.model.result import EngineOutcome
+    monkeypatch.setattr(bdd, "run", lambda d, s, o: EngineOutcome("bdd", "fail", 0.0, "planted"))
+    with pytest.raises(SystemExit) as stop:
+        main(["check", str(ROOT / "designs" / "larkspur_add16_cla.json"), "--engine", "sweep",
+              "--cross-check", "--no-log"])
+    assert stop.value.code == 2  # an internal error is never exit 1 (a failing design)
+    assert "EngineDisagreement" in capsys.readouterr().err
