@@ -17,7 +17,8 @@ Optional keys: ``top``, ``params`` (a number or a list of numbers per parameter;
 parameters give every combination), ``require`` (default ``complete``), ``engine`` (default
 ``auto``), ``timeout`` (seconds, default 60), ``expect`` (``pass``, the default, or ``fail`` for a
 design broken on purpose: it meets expectations when a counterexample is found), ``include_dirs``,
-``defines``, ``seed``, ``vectors`` and ``exhaustive_limit``.
+``defines``, ``seed``, ``vectors``, ``exhaustive_limit`` and ``cross_check`` (true: two independent
+complete engines must agree before a complete verdict).
 
 ``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
 with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
