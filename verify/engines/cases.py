@@ -96,17 +96,18 @@ def _columns(numbers: list[int], width: int) -> list[int]:
     return [int("".join(col)[::-1], 2) for col in zip(*rows)][::-1]
 
 
-def control_inputs(design, spec, seed: int = 1) -> list[str]:
-    """One-bit inputs to split into cases: none when the spec is a plain sum with these inputs
-    free (a carry-in then is part of the sum), else every one-bit input (up to ``MAX_SPLIT``)."""
+def control_inputs(design, spec, seed: int = 1) -> tuple[list[str], Addition | None]:
+    """One-bit inputs to split into cases, and the addition found with none split: no split when
+    the spec is a plain sum with these inputs free (a carry-in then is part of the sum), else
+    every one-bit input (up to ``MAX_SPLIT``)."""
     ones = [p.name for p in design.inputs if p.width == 1]
-    if not ones or len(ones) > MAX_SPLIT:
-        return []
     whole = find_addition(design, spec, {}, seed)
+    if not ones or len(ones) > MAX_SPLIT:
+        return [], whole
     outputs = sum(p.width for p in design.outputs)
     if whole is not None and whole.matched >= min(outputs, whole.width + 1):
-        return []
-    return ones
+        return [], whole
+    return ones, whole
 
 
 def cases(names: list[str]) -> list[dict[str, int]]:

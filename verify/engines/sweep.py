@@ -466,13 +466,14 @@ def run(design, spec, options: Options) -> EngineOutcome:
     started_wall, started = time.perf_counter(), time.process_time()
     deadline = started + options.timeout
     reference = spec.reference()
-    split = control_inputs(design, spec, options.seed)
+    split, whole = control_inputs(design, spec, options.seed)
     stats = _Stats()
     additions = []
     details: dict = {"solver": SOLVER, "time": "cpu"}
     try:
         for fixed in cases(split):
-            add = find_addition(design, spec, fixed, options.seed)
+            # the unsplit case was already searched when choosing what to split
+            add = whole if not fixed else find_addition(design, spec, fixed, options.seed)
             additions.append(add.describe() if add else None)
             case = _Case(design, reference, fixed, add, options, deadline, stats)
             case.simulate()
