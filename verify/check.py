@@ -7,10 +7,14 @@
                           spec="{cout, sum} = a + b + cin")
     assert result.ok, result.coverage
 
-``engine="auto"`` (the default) runs random vectors first (``vectors`` of them, default 20,000),
-to find a bug fast, then the exhaustive
-engine when the input bits fit its limit, else z3 within the time limit. If that last engine gives
-no answer, the verdict is undecided: passing random vectors never stands in for a proof.
+``engine="auto"`` (the default) is a portfolio: random vectors first (``vectors`` of them,
+default 20,000), to find a bug fast; then the exhaustive engine when the input bits fit its limit
+(unless the random stage already simulated the whole space); otherwise the sweeping engine
+(internal equivalences), then the BDD engine, then z3, each only if the one before gave no answer,
+all within one CPU-time limit. If none answers, the verdict is undecided: passing random vectors
+never stands in for a proof. ``cross_check=True`` asks a second, independent complete engine to
+agree with the first before ``proven`` (or a complete engine's failure) is given; if they
+disagree, ``EngineDisagreement`` is raised (a bug in this tool, never a verdict).
 """
 
 from __future__ import annotations
@@ -21,11 +25,18 @@ from pathlib import Path
 from typing import Callable
 
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT, Options
-from verify.errors import InputError
+from verify.errors import EngineDisagreement, InputError
 from verify.model.netlist import Netlist
 from verify.model.result import CheckResult, EngineOutcome, Require, ShardPart, Verdict, combine
 
-ENGINE_NAMES = ("auto", "exhaustive", "smt", "random")
+#: engine name -> module under verify/engines/ with run(design, spec, options)
+ENGINES = {"exhaustive": "exhaustive", "smt": "smt", "random": "randomized", "sweep": "sweep",
+           "bdd": "bdd"}
+ENGINE_NAMES = ("auto", *ENGINES)
+#: engines that decide the whole input space (a pass is proven or exhaustive)
+COMPLETE_ENGINES = ("exhaustive", "sweep", "bdd", "smt")
+#: the order auto tries complete engines in, past the exhaustive limit
+PORTFOLIO = ("sweep", "bdd", "smt")
 #: how many random vectors auto runs before the complete engine
 AUTO_RANDOM_VECTORS = 20_000
 #: the longest time limit accepted (a week): past it a limit means nothing
@@ -33,8 +44,16 @@ MAX_TIMEOUT = 7 * 24 * 3600
 
 
 def _engine(name: str):
-    from verify.engines import exhaustive, randomized, smt
-    return {"exhaustive": exhaustive.run, "smt": smt.run, "random": randomized.run}[name]
+    import importlib
+    return importlib.import_module(f"verify.engines.{ENGINES[name]}").run
+
+
+def _partner(name: str, design: Netlist, exhaustive_limit: int) -> str:
+    """An independent complete engine to confirm ``name``'s answer."""
+    for other in ("sweep", "bdd", "smt"):
+        if other != name:
+            return other
+    raise AssertionError(name)  # pragma: no cover
 
 
 def resolve_spec(design: Netlist, spec=None):
@@ -92,7 +111,8 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
           exhaustive_limit: int = DEFAULT_EXHAUSTIVE_BITS, shrink: bool = True,
           shard: tuple[int, int] | None = None, strength: int | None = None,
           progress: Callable[[str, int, int], None] | None = None,
-          settle_within: float | None = None, delays=None) -> CheckResult:
+          settle_within: float | None = None, delays=None,
+          cross_check: bool = False) -> CheckResult:
     """Establish what can be established about ``design`` against ``spec``.
 
     ``spec`` is equation text, a ``verify.spec.Spec`` or None (inferred from port names).
@@ -104,6 +124,8 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
     ``strength=N`` injects N single faults into copies of the design and reports in
     ``result.strength`` what fraction the same random vectors catch (an estimate, not a proof);
     only when random vectors are the strongest evidence (a tested or undecided verdict).
+    ``cross_check=True`` makes two independent complete engines agree before a complete verdict
+    (raises ``EngineDisagreement`` when they do not).
     Raises InputError for bad input; never returns a passing verdict no engine established.
     """
     started = time.perf_counter()
@@ -144,15 +166,35 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         return Options(**base)
 
     outcomes: list[EngineOutcome] = []
+    budget_start = time.process_time()
+
+    def remaining() -> float:
+        return max(0.001, timeout - (time.process_time() - budget_start))
+
     if engine == "auto":
         first = vectors if vectors else AUTO_RANDOM_VECTORS  # --vectors sets this stage
         outcomes.append(_engine("random")(design, the_spec, options("random", vectors=first)))
         if outcomes[-1].status != "fail" and outcomes[-1].engine != "exhaustive":
             # (the random stage simulated the whole space when it fitted its budget)
-            final = "exhaustive" if design.input_width <= exhaustive_limit else "smt"
-            outcomes.append(_engine(final)(design, the_spec, options(final)))
+            chain = ("exhaustive",) if design.input_width <= exhaustive_limit else PORTFOLIO
+            for name in chain:
+                outcomes.append(_engine(name)(design, the_spec, options(name, timeout=remaining())))
+                if outcomes[-1].status in ("pass", "fail"):
+                    break
     else:
         outcomes.append(_engine(engine)(design, the_spec, options(engine)))
+    if cross_check:
+        decided = next((e for e in reversed(outcomes)
+                        if e.engine in COMPLETE_ENGINES and e.status in ("pass", "fail")), None)
+        if decided is not None and shard is None:
+            other = _partner(decided.engine, design, exhaustive_limit)
+            second = _engine(other)(design, the_spec, options(other))
+            outcomes.append(second)
+            if second.status in ("pass", "fail") and second.status != decided.status:
+                raise EngineDisagreement(decided, second)
+            if second.status != decided.status and decided.status == "pass":
+                # the second engine gave no answer: the proof is not cross-checked
+                outcomes[outcomes.index(decided)] = _unconfirmed(decided, second)
 
     verdict, cex = combine(outcomes)
     if engine == "auto" and verdict is Verdict.TESTED:
@@ -194,3 +236,10 @@ def check(design: Netlist | str | Path, spec=None, *, engine: str = "auto", seed
         engines=outcomes, verdict=verdict, require=require, counterexample=cex,
         seconds=time.perf_counter() - started, origin=design.origin,
         found_counterexample=found, shard=shard_part, strength=strength_figures)
+
+
+def _unconfirmed(first: EngineOutcome, second: EngineOutcome) -> EngineOutcome:
+    """A pass that a required cross-check could not confirm: undecided, with both evidences."""
+    return EngineOutcome(first.engine, "undecided", first.seconds,
+                         f"{first.evidence}; not confirmed: the cross-check by {second.engine} gave "
+                         f"no answer", first.vectors, None, dict(first.details, unconfirmed=True))

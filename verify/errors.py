@@ -91,11 +91,16 @@ class InternalError(Exception):
 
 
 class EngineDisagreement(InternalError):
-    """Two complete engines disagree about one design: a bug in one of them, never a verdict."""
+    """Two complete engines reached opposite answers on the same check: a bug in this tool, never
+    a verdict and never bad input. Carries both outcomes (``first``, ``second``)."""
 
-    def __init__(self, message: str, outcomes=()):
-        super().__init__(message)
-        self.outcomes = list(outcomes)
+    def __init__(self, first, second):
+        super().__init__(f"engines disagree: {first.engine} says {first.status} "
+                         f"({first.evidence}); {second.engine} says {second.status} "
+                         f"({second.evidence})")
+        self.first = first
+        self.second = second
+        self.outcomes = [first, second]
 
 
 class InputNote(UserWarning):

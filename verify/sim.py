@@ -1,6 +1,7 @@
 """The netlist compiled once into straight-line bit-parallel Python.
 
-A netlist becomes the source of one Python function with one assignment per gate, then ``exec``-ed.
+A netlist becomes Python source with one assignment per gate, split into chunk functions of a
+few thousand gates each (so a 65,536-gate-deep design compiles), then ``exec``-ed.
 Every variable holds a *word*: bit j of the word is the value of that net in vector j. Words are
 Python integers (any number of vectors at once; ``M`` is the all-ones mask of the word) or numpy
 ``uint64`` arrays (64 vectors per element; ``M`` is ``np.uint64(2**64-1)``). The same source serves
@@ -12,6 +13,7 @@ one word whose set bits are the vectors where any output differs.
 
 from __future__ import annotations
 
+import re
 from functools import lru_cache
 from typing import Mapping, Sequence
 
@@ -19,6 +21,11 @@ from verify.model.netlist import CONST0, CONST1, Netlist, Port
 from verify.model.ops import OPS
 
 Word = int  # or a numpy uint64 array
+
+
+#: gates per generated function: CPython's compiler recurses over a function's body, so one
+#: function per 65,536 gates would exhaust its stack; chunks of this size never do
+CHUNK = 2000
 
 
 def emit(netlist: Netlist, tag: str, inputs: Mapping[str, str]) -> tuple[list[str], dict[str, str]]:
@@ -30,7 +37,7 @@ def emit(netlist: Netlist, tag: str, inputs: Mapping[str, str]) -> tuple[list[st
     lines = []
     for k, g in enumerate(netlist.ordered_gates):
         v = f"{tag}{k}"
-        lines.append(f"    {v} = {OPS[g.op].word([var[i] for i in g.inputs])}")
+        lines.append(f"{v} = {OPS[g.op].word([var[i] for i in g.inputs])}")
         var[g.output] = v
     return lines, var
 
@@ -39,14 +46,62 @@ def _input_vars(netlist: Netlist) -> dict[str, str]:
     return {b: f"i{k}" for k, b in enumerate(netlist.input_bits)}
 
 
-def _compile(name: str, args: list[str], lines: list[str], result: str):
-    src = f"def {name}(I, M):\n"
-    if args:
-        src += f"    {', '.join(args)}{',' if len(args) == 1 else ''} = I\n"
-    src += "\n".join(lines) + f"\n    return {result}\n"
+_NAME = re.compile(r"\b[a-z]\d+\b")
+
+
+def _compile(name: str, args: list[str], lines: list[str], result: list[str], reduce_or: bool = False):
+    """Compile straight-line ``lines`` (``var = expr``) into ``name(I, M)``.
+
+    The lines are split into chunk functions of at most ``CHUNK`` lines. Values that cross a
+    chunk boundary travel in one dict ``V`` (each chunk loads what it reads from earlier chunks
+    into locals and stores what later chunks or the result read). ``result`` lists the variables
+    returned as a tuple, or, with ``reduce_or``, OR-ed into one word (one statement per term, so
+    no expression nests deeply).
+    """
+    chunks = [lines[k:k + CHUNK] for k in range(0, len(lines), CHUNK)] or [[]]
+    defined_in: dict[str, int] = {a: -1 for a in args}
+    reads: list[set[str]] = []
+    for c, chunk in enumerate(chunks):
+        used: set[str] = set()
+        for line in chunk:
+            target, expr = line.split(" = ", 1)
+            used.update(_NAME.findall(expr))
+            defined_in[target] = c
+        reads.append(used)
+    needed_later: set[str] = set(result)
+    stores: list[set[str]] = [set() for _ in chunks]
+    loads: list[set[str]] = [set() for _ in chunks]
+    for c in range(len(chunks) - 1, -1, -1):
+        for v in reads[c]:
+            d = defined_in.get(v)
+            if d is not None and d != c:
+                loads[c].add(v)
+                needed_later.add(v)
+    for v in needed_later:
+        d = defined_in.get(v)
+        if d is not None and d >= 0:
+            stores[d].add(v)
+    src = []
+    for c, chunk in enumerate(chunks):
+        src.append(f"def _{name}_{c}(V, M):")
+        src += [f"    {v} = V[{v!r}]" for v in sorted(loads[c])]
+        src += [f"    {line}" for line in chunk]
+        src += [f"    V[{v!r}] = {v}" for v in sorted(stores[c])]
+        src.append("    return None")
+    src.append(f"def {name}(I, M):")
+    src.append(f"    V = dict(zip({tuple(args)!r}, I))")
+    src += [f"    _{name}_{c}(V, M)" for c in range(len(chunks))]
+    value = lambda v: v if v in ("0", "M") else f"V[{v!r}]"  # noqa: E731
+    if reduce_or:
+        src.append("    out = 0")
+        src += [f"    out |= {value(t)}" for t in result]
+        src.append("    return out")
+    else:
+        src.append("    return (" + "".join(value(v) + ", " for v in result) + ")")
+    text = "\n".join(src) + "\n"
     scope: dict = {}
-    exec(compile(src, f"<{name}>", "exec"), scope)  # noqa: S102 - our own generated code
-    return scope[name], src
+    exec(compile(text, f"<{name}>", "exec"), scope)  # noqa: S102 - our own generated code
+    return scope[name], text
 
 
 class Simulator:
@@ -58,8 +113,7 @@ class Simulator:
         ivars = _input_vars(netlist)
         lines, var = emit(netlist, "g", ivars)
         outs = [var[b] for b in netlist.output_bits]
-        self._run, self.source = _compile("simulate", list(ivars.values()), lines,
-                                          "(" + ", ".join(outs) + ",)")
+        self._run, self.source = _compile("simulate", list(ivars.values()), lines, outs)
         self._run_all = None
         self._all_nets: list[str] = []
 
@@ -77,7 +131,7 @@ class Simulator:
             lines, var = emit(self.netlist, "g", ivars)
             self._all_nets = list(self.netlist.input_bits) + [g.output for g in self.netlist.ordered_gates]
             self._run_all, _ = _compile("simulate_all", list(ivars.values()), lines,
-                                        "(" + ", ".join(var[n] for n in self._all_nets) + ",)")
+                                        [var[n] for n in self._all_nets])
         values = self._run_all(words, mask)
         return dict(zip(self._all_nets, values))
 
@@ -108,12 +162,10 @@ class Miter:
         ivars = _input_vars(design)
         dl, dvar = emit(design, "d", ivars)
         rl, rvar = emit(reference, "r", ivars)
-        diffs = [f"({dvar[b]} ^ {rvar[b]})" for b in design.output_bits]
+        diffs = [f"x{k} = {dvar[b]} ^ {rvar[b]}" for k, b in enumerate(design.output_bits)]
         self.gate_count = len(design.gates) + len(reference.gates)
-        # OR the differences 64 at a time: one long a | b | ... chain overflows the compiler
-        ors = ["    m = 0"] + [f"    m |= {' | '.join(diffs[k:k + 64])}"
-                               for k in range(0, len(diffs), 64)]
-        self._run, self.source = _compile("miter", list(ivars.values()), dl + rl + ors, "m")
+        self._run, self.source = _compile("miter", list(ivars.values()), dl + rl + diffs,
+                                          [f"x{k}" for k in range(len(diffs))], reduce_or=True)
 
     def run(self, words: Sequence[Word], mask: Word) -> Word:
         return self._run(words, mask)

@@ -13,7 +13,7 @@ from verify.errors import InputError
 from verify.cli.options import (check_report_paths, parse_defines, parse_params, parse_shard,
                                 single_point, verilog_options, with_exit_codes)
 
-ENGINES = ("auto", "exhaustive", "smt", "random")
+from verify.check import ENGINE_NAMES as ENGINES  # noqa: E402 - the one list of engine names
 
 
 @click.command("check", help=with_exit_codes(
@@ -22,7 +22,10 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
 @click.option("--spec", help='What the outputs must equal, e.g. "{cout, sum} = a + b + cin". '
               "Default: inferred from port names and widths.")
 @click.option("--engine", type=click.Choice(ENGINES), default="auto", show_default=True,
-              help="auto: random vectors first, then exhaustive if the inputs fit, else smt.")
+              help="auto: random vectors first, then exhaustive if the inputs fit, else sweep, "
+              "bdd, smt in turn.")
+@click.option("--cross-check", is_flag=True, help="Two independent complete engines must agree "
+              "before a complete verdict.")
 @click.option("--seed", type=click.IntRange(min=0), default=1, show_default=True,
               help="Seed of the random engine.")
 @click.option("--vectors", type=click.IntRange(min=1), help="Vectors for the random engine "
@@ -61,7 +64,7 @@ ENGINES = ("auto", "exhaustive", "smt", "random")
               help="After random vectors pass: inject N single faults into copies of the design "
               "and report what fraction the same vectors catch (an estimate, not a proof).")
 @click.option("--quiet", "-q", is_flag=True, help="No progress display.")
-def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_limit, shard, cluster,
+def check_cmd(paths, spec, engine, cross_check, seed, vectors, timeout, require, exhaustive_limit, shard, cluster,
               top, params, include_dirs, defines, cells, as_json, recursive, log_dir, no_log,
               vcd_path, dot_path, no_diagnose, settle_within, delays, strength, quiet):
     from contextlib import nullcontext
@@ -91,7 +94,7 @@ def check_cmd(paths, spec, engine, seed, vectors, timeout, require, exhaustive_l
                 progress=bar, engine=engine, seed=seed, vectors=vectors, timeout=timeout,
                 require=require, exhaustive_limit=exhaustive_limit, shard=parse_shard(shard),
                 settle_within=settle_within, delays=delays, strength=strength,
-                executor=executor)
+                cross_check=cross_check, executor=executor)
     except InputError as e:
         if as_json:
             click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))

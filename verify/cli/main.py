@@ -113,7 +113,8 @@ def report_error(e: BaseException) -> int:
         click.echo(f"error: {e.for_command_line()}", err=True)
         return 2
     if isinstance(e, EngineDisagreement):
-        click.echo(f"internal error: engines disagree: {e}", err=True)
+        click.echo(f"internal error (EngineDisagreement): two complete engines disagree; this is "
+                   f"a bug in {PROG}, not a verdict about the design:", err=True)
         for outcome in e.outcomes:
             click.echo(f"  {outcome.engine}: {outcome.status}: {outcome.evidence}", err=True)
         return 2

@@ -1,7 +1,9 @@
 """Engines: each is ``run(design, spec, options) -> EngineOutcome``.
 
 ``exhaustive`` simulates every input combination, ``smt`` asks z3 for an input where the design and
-the spec differ, ``random`` simulates seeded vectors aimed at the hard cases of addition. Engines do
+the spec differ, ``random`` simulates seeded vectors aimed at the hard cases of addition,
+``sweep`` proves internal equivalences then the outputs with small SAT queries, ``bdd`` compares
+the outputs as binary decision diagrams. Engines do
 not print; they call ``options.progress(done, total)`` when it is set.
 """
 

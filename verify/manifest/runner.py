@@ -20,8 +20,10 @@ design broken on purpose, kept as a regression case: it meets the manifest when 
 is found), ``include_dirs``, ``defines``, ``cells`` (Liberty files giving the logic of the
 cells a gate-level netlist instantiates), ``seed``, ``vectors``, ``exhaustive_limit``,
 ``settle_within`` (prove every output settled by that time for every input, floating mode; see
-``verify.timing``) and ``delays`` (``unit``, the default, or a TOML delay table beside the
-manifest).
+``verify.timing``), ``delays`` (``unit``, the default, or a TOML delay table beside the
+manifest), ``strength`` (inject that many single faults to estimate how strong a tested verdict's
+vectors are) and ``cross_check`` (true: two independent complete engines must agree before a
+complete verdict).
 
 ``run(manifest)`` checks every (entry, parameter point) - in a process pool with ``jobs > 1``,
 with the same results as one job - and reports each one from the cache (``verify.manifest.cache``) when
@@ -48,12 +50,12 @@ from verify.model.result import Verdict, worst_exit_code
 import tomllib as _toml
 
 MANIFEST_NAME = "verify.toml"
-ENGINES = ("auto", "exhaustive", "smt", "random")
+from verify.check import ENGINE_NAMES as ENGINES  # noqa: E402 - one list of engine names
 REQUIRES = ("complete", "tested")
 DEFAULT_TIMEOUT = 60.0
 KEYS = ("name", "sources", "spec", "top", "params", "require", "method", "time_limit",
         "deliberately_broken", "include_dirs", "defines", "cells", "seed", "vectors",
-        "exhaustive_limit", "settle_within", "delays", "strength")
+        "exhaustive_limit", "settle_within", "delays", "strength", "cross_check")
 REQUIRED = ("name", "sources", "spec")
 #: keys of earlier versions, refused with the key that replaced them
 RENAMED = {"files": ("sources", 'sources = ["rtl/adder.sv"]'),
@@ -89,6 +91,8 @@ class Entry:
     delays: str | None = None
     delays_hash: str | None = None
     strength: int | None = None  # faults injected to estimate a sample's strength
+    #: two independent complete engines must agree before a complete verdict
+    cross_check: bool = False
     #: where the entry starts, "verify.toml:12", for messages
     where: str = ""
     #: where each key of the entry is written, (("spec", "verify.toml:14"), ...), for messages
@@ -111,6 +115,7 @@ class Entry:
                 "exhaustive_limit": self.exhaustive_limit, "top": self.top,
                 "include_dirs": list(self.include_dirs), "defines": dict(self.defines),
                 "cells": list(self.cells), "strength": self.strength,
+                "cross_check": self.cross_check,
                 **({"settle_within": self.settle_within, "delays": self.delays,
                     "delays_hash": self.delays_hash} if self.settle_within is not None else {})}
 
@@ -315,6 +320,9 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
 
     seed = whole("seed", 0)
     settle, delays, delays_hash = _settle_keys(table, path, bad)
+    cross_check = table.get("cross_check", False)
+    if not isinstance(cross_check, bool):
+        raise bad("cross_check", f"must be true or false, got {cross_check!r}")
     key_where = []
     for key in table:
         n = _key_line(lines, start, end, key) if start else None
@@ -328,7 +336,7 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         seed=1 if seed is None else seed, vectors=whole("vectors", 1),
         exhaustive_limit=whole("exhaustive_limit", 1, 40), where=where,
         key_where=tuple(key_where), settle_within=settle, delays=delays, delays_hash=delays_hash,
-        strength=whole("strength", 1, 100_000))
+        strength=whole("strength", 1, 100_000), cross_check=cross_check)
 
 
 
@@ -435,7 +443,8 @@ def check_entry(entry: Entry, point: dict[str, int], root: str | Path,
                        exhaustive_limit=entry.exhaustive_limit or DEFAULT_EXHAUSTIVE_BITS,
                        settle_within=entry.settle_within,
                        delays=entry.delays if entry.delays in (None, "unit")
-                       else str(root / entry.delays), strength=entry.strength)
+                       else str(root / entry.delays), strength=entry.strength,
+                       cross_check=entry.cross_check)
     except InputError as e:
         return error_record(entry, point, e, time.perf_counter() - started)
     data = result.to_json()

@@ -5,7 +5,8 @@ Verdicts, strongest first, and what each one covers:
 ============  =====================================================================  ====
 verdict       meaning                                                                exit
 ============  =====================================================================  ====
-proven        z3 showed no input makes any output differ from the spec (unsat)       0
+proven        a complete engine (z3, sweeping, BDD) showed no input makes any output     0
+              differ from the spec
 exhaustive    every combination of every input bit was simulated and matched         0
 tested        N vectors matched; a sample, never a proof                             0 (3 with require=complete)
 fail          a counterexample: an input where some output differs (re-simulated)    1
@@ -55,6 +56,10 @@ class Status(str, Enum):
     def __str__(self) -> str:  # pragma: no cover - trivial
         return self.value
 
+
+#: engines whose pass is a proof, and how the coverage sentence names them
+PROOF_ENGINES = {"smt": "z3", "sweep": "internal-equivalence sweeping", "bdd": "BDD comparison"}
+
 #: the cautions every verdict carries
 SCOPE_NOTE = (
     "A verdict covers the modeled logic at this width only: not timing, glitches, "
@@ -100,7 +105,7 @@ class Counterexample:
 class EngineOutcome:
     """What one engine established, in one sentence (``evidence``), with its figures."""
 
-    engine: str  # exhaustive | smt | random | ...
+    engine: str  # exhaustive | smt | random | sweep | bdd | settle
     status: Status
     seconds: float
     evidence: str
@@ -203,7 +208,9 @@ class CheckResult:
         bits = sum(self.ports["inputs"].values())
         v = self.verdict
         if v is Verdict.PROVEN:
-            return (f"proven by z3 for all 2^{bits} values of the {bits} input bits: every output "
+            by = ", ".join(PROOF_ENGINES[e.engine] for e in self.engines
+                           if e.status == "pass" and e.engine in PROOF_ENGINES)
+            return (f"proven by {by} for all 2^{bits} values of the {bits} input bits: every output "
                     f"equals the spec")
         if v is Verdict.EXHAUSTIVE:
             return (f"all 2^{bits} = {2 ** bits:,} input combinations simulated; every output "
@@ -283,7 +290,7 @@ def combine(outcomes: list[EngineOutcome]) -> tuple[Verdict, Counterexample | No
         if e.status is Status.FAIL:
             return Verdict.FAIL, e.counterexample
     passed = {e.engine for e in outcomes if e.status is Status.PASS}
-    if "smt" in passed:
+    if passed & set(PROOF_ENGINES):
         return Verdict.PROVEN, None
     if "exhaustive" in passed:
         return Verdict.EXHAUSTIVE, None
