@@ -62,8 +62,9 @@ PROOF_ENGINES = {"smt": "z3", "sweep": "internal-equivalence sweeping", "bdd": "
 
 #: the cautions every verdict carries
 SCOPE_NOTE = (
-    "A verdict covers the modeled logic at this width only: not timing, glitches, "
-    "X-propagation or physical effects. Sign-off stays with your own flow."
+    "A verdict covers the modeled two-valued logic at this width only, and a settle time only "
+    "under the stated gate-delay model (floating mode): not X-propagation, wire delays, slews or "
+    "other physical effects. Sign-off stays with your own flow and its rules."
 )
 
 
@@ -204,7 +205,15 @@ class CheckResult:
 
     @property
     def coverage(self) -> str:
-        """One sentence: exactly what the verdict covers."""
+        """One sentence: exactly what the verdict covers (and, when a settle time was proven,
+        under which delay model)."""
+        text = self._function_coverage()
+        settled = next((e for e in self.engines if e.engine == "settle" and e.status == "pass"), None)
+        if settled is not None and self.verdict in COMPLETE:
+            text += f"; and {settled.evidence}"
+        return text
+
+    def _function_coverage(self) -> str:
         bits = sum(self.ports["inputs"].values())
         v = self.verdict
         if v is Verdict.PROVEN:
@@ -226,6 +235,10 @@ class CheckResult:
                     f"sample of the 2^{bits} "
                     f"inputs, not a proof")
         if v is Verdict.FAIL:
+            failed = {e.engine for e in self.engines if e.status == "fail"}
+            if failed == {"settle"}:
+                return ("counterexample found: an output is not settled by the time asked for on "
+                        "this input (its final value is right; the design is late, not wrong)")
             return "counterexample found: the design does not meet the spec"
         if v is Verdict.UNDECIDED:
             return "no engine established the spec (see each engine's evidence)"
