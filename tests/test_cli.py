@@ -218,3 +218,14 @@ def test_a_log_dir_that_is_a_file_is_refused_before_any_check(files, capsys):
     code, out, err = run(["check", str(bad), "--log-dir", str(blocker)], capsys)
     assert code == 2 and "--log-dir" in err and "names a file" in err
     assert blocker.read_text() == "mine\n"
+
+
+@pytest.mark.parametrize("command", ["check", "export", "explain", "generate", "shape", "run",
+                                     "merge", "timing"])
+def test_every_command_help_lists_its_exit_codes(command, capsys):
+    code, out, _ = run([command, "--help"], capsys)
+    assert code == 0
+    text = " ".join(out.split())
+    import re
+    assert re.search(r"Exit (codes: )?0\b", text), text  # where the codes start
+    assert re.search(r"[;,] 2\b", text) and re.search(r"[;,] (1|3|4)\b", text), text

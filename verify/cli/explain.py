@@ -35,7 +35,13 @@ from verify.errors import InputError
 def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top, params,
                 include_dirs, defines, cells, as_json):
     """Show every bit's expected and actual sum and carry for one vector, the suspect gates and
-    the path along which the first wrong value travels."""
+    the path along which the first wrong value travels.
+
+    \b
+    Exit codes: 0 the vector gives the outputs the spec expects; 1 it does not; without --input
+    the design is checked first and the code is the check's (0 meets the spec, 1 counterexample,
+    3 undecided); 2 bad input; 4 internal error of this tool.
+    """
     try:
         return _explain(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top,
                         params, include_dirs, defines, cells, as_json)

@@ -8,7 +8,7 @@ from pathlib import Path
 
 import click
 
-from verify.cli.options import parse_defines, single_point, verilog_options, with_exit_codes
+from verify.cli.options import parse_defines, single_point, verilog_options
 from verify.errors import InputError
 
 
@@ -43,6 +43,10 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
     """Write a reference adder ARCH (e.g. kogge-stone) as a JSON netlist or structural Verilog.
 
     Ports: a, b (WIDTH bits), cin; sum (WIDTH bits), cout; v with --overflow.
+
+    \b
+    Exit codes: 0 written (or listed); 2 bad input (an unknown architecture, a bad width, a file
+    that may not be replaced); 4 internal error of this tool.
     """
     if list_ or arch is None:
         click.echo(_architecture_table())
@@ -72,9 +76,10 @@ def generate_cmd(arch, width, no_cin, no_cout, overflow, block, levels, sizes, n
         click.echo(text, nl=False)
 
 
-@click.command("shape", help=with_exit_codes(
+@click.command("shape", help=(
     "Gate counts, logic depth in gate levels, the longest path, fanout and prefix nodes of "
-    "DESIGN: the shape of the circuit, not a proof of anything."))
+    "DESIGN: the shape of the circuit, not a proof of anything.\n\n\b\nExit codes: 0 the "
+    "figures were printed; 2 bad input; 4 internal error of this tool."))
 @click.argument("paths", nargs=-1, required=True, metavar="DESIGN...")
 @verilog_options(sweep=False)
 @click.option("--json", "as_json", is_flag=True, help="Print the figures as JSON.")

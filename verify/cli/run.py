@@ -137,9 +137,10 @@ def run_cmd(manifest, jobs, cluster, junit_path, json_path, md_path, html_path, 
             cache_dir, only, quiet):
     """Check every design of MANIFEST (default ./verify.toml) at every parameter value.
 
-    Exit 0 when every entry meets its manifest, 1 when a result contradicts it (a counterexample,
-    or a proof for an entry marked expect = "fail"), 3 when a result is undecided or weaker
-    than its require, 2 for a bad manifest or a design that cannot be read.
+    \b
+    Exit codes: 0 every entry meets its manifest; 1 a result contradicts it (a counterexample,
+    or a proof for an entry marked deliberately_broken = true); 2 a bad manifest or a design that
+    cannot be read; 3 a result is undecided or weaker than its require; 4 internal error.
     """
     from verify.manifest import runner as gate
     from verify.render import batch as rb
