@@ -7,8 +7,9 @@ import sys
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-SCRIPTS = ["bench_engines.py", "bench_verilog.py", "bench_diagnose.py", "bench_gate.py",
-           "bench_timing.py"]
+SCRIPTS = ["bench_engines.py", "bench_proofs.py", "bench_timing.py", "bench_batch.py",
+           "bench_hard_faults.py", "bench_spec_z3.py", "bench_verilog.py", "bench_diagnose.py",
+           "bench_gate.py"]
 
 
 def main() -> int:
