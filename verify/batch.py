@@ -31,8 +31,22 @@ from verify.model.netlist import Netlist
 from verify.model.result import CheckResult, Verdict, worst_exit_code
 
 
+class _HasResult:
+    """Exit code and ok of a record holding a CheckResult, or None when nothing was checked."""
+
+    result: CheckResult | None
+
+    @property
+    def exit_code(self) -> int:
+        return 2 if self.result is None else self.result.exit_code
+
+    @property
+    def ok(self) -> bool:
+        return self.exit_code == 0
+
+
 @dataclass
-class FileCheck:
+class FileCheck(_HasResult):
     """One design at one parameter point: its result, or the error that stopped it."""
 
     label: str  # the files, as given
@@ -44,14 +58,6 @@ class FileCheck:
     diagnosis: list[str] = field(default_factory=list)
     #: things worth saying that are not verdicts (the run log could not be written...)
     warnings: list[str] = field(default_factory=list)
-
-    @property
-    def exit_code(self) -> int:
-        return 2 if self.result is None else self.result.exit_code
-
-    @property
-    def ok(self) -> bool:
-        return self.exit_code == 0
 
     @property
     def name(self) -> str:
@@ -234,7 +240,7 @@ def exit_code(runs: Sequence[FileCheck]) -> int:
 # ---- many designs, in worker processes or on a cluster ------------------------------------------
 
 @dataclass
-class BatchCheck:
+class BatchCheck(_HasResult):
     """One design of ``check_many``: its place in the input, and its result or why there is none."""
 
     index: int  # the design's position in the designs given (0 first)
@@ -247,13 +253,6 @@ class BatchCheck:
     def verdict(self) -> Verdict:
         return Verdict.ERROR if self.result is None else self.result.verdict
 
-    @property
-    def exit_code(self) -> int:
-        return 2 if self.result is None else self.result.exit_code
-
-    @property
-    def ok(self) -> bool:
-        return self.exit_code == 0
 
 
 def _shipped_spec(spec):

@@ -281,12 +281,17 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
             raise bad("params", f"parameter '{pname}' lists a value twice")
         params.append((pname, tuple(vals)))
 
-    include_dirs = table.get("include_dirs", [])
-    if not isinstance(include_dirs, list) or not all(isinstance(d, str) and d for d in include_dirs):
-        raise bad("include_dirs", "must be a list of folders")
-    for d in include_dirs:
-        if not (root / d).is_dir():
-            raise bad("include_dirs", f"no such folder '{d}'")
+    def paths(key: str, kind: str, exists, example: str, where_hint: str = "") -> list[str]:
+        """A key holding a list of paths beside the manifest, each of which must exist."""
+        given = table.get(key, [])
+        if not isinstance(given, list) or not all(isinstance(x, str) and x for x in given):
+            raise bad(key, f"must be a list of {kind}s{example}")
+        for x in given:
+            if not exists(root / x):
+                raise bad(key, f"no such {kind} '{x}'{where_hint}")
+        return given
+
+    include_dirs = paths("include_dirs", "folder", Path.is_dir, "")
 
     defines_in = table.get("defines", {})
     if not isinstance(defines_in, dict):
@@ -300,12 +305,8 @@ def _entry(table: dict, index: int, path: Path, lines: list[str], start: int, en
         else:
             raise bad("defines", f"'{dname}': give a string, a number or true")
 
-    cells = table.get("cells", [])
-    if not isinstance(cells, list) or not all(isinstance(c, str) and c for c in cells):
-        raise bad("cells", 'must be a list of Liberty files, e.g. cells = ["lib/cells.lib"]')
-    for c in cells:
-        if not (root / c).is_file():
-            raise bad("cells", f"no such file '{c}' (paths are relative to the manifest's folder)")
+    cells = paths("cells", "Liberty file", Path.is_file, ', e.g. cells = ["lib/cells.lib"]',
+                  " (paths are relative to the manifest's folder)")
 
     if is_json and (top or params or include_dirs or defines or cells):
         used = [k for k in ("top", "params", "include_dirs", "defines", "cells") if table.get(k)]
