@@ -18,6 +18,7 @@ from verify.formats.verilog.common import _CONSTS
 
 MAX_GATES = 500_000  # gates made while translating (before unused ones are dropped)
 MAX_SIGNAL_BITS = 1 << 20  # bits in one signal
+MAX_EXPRESSION_BITS = 1 << 17  # bits in one expression's value: twice the widest port
 MAX_TOTAL_BITS = 1 << 23  # bits in all signals together
 
 

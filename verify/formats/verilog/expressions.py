@@ -10,6 +10,7 @@ from pyslang import ast
 
 from verify.model import words
 from verify.model.netlist import CONST0, CONST1
+from verify.formats.verilog.drivers import MAX_EXPRESSION_BITS
 from verify.formats.verilog.common import (BO, EK, SK, UO, _CONSTS, _COMPARE, _kind_words,
                                            _expr_words)
 from verify.formats.verilog.constants import (_extends_signed, _from_int, _gather, _local_name,
@@ -31,6 +32,10 @@ class Expressions:
 
     def ev(self, e) -> list[str]:
         k = e.kind
+        t = e.type.canonicalType
+        if t.isIntegral and t.bitWidth > MAX_EXPRESSION_BITS:
+            raise self.fail(f"an expression {t.bitWidth:,} bits wide; the limit is "
+                            f"{MAX_EXPRESSION_BITS:,} bits (twice the widest port)", e)
         if k == EK.BinaryOp or k == EK.Conversion:
             return self._chain(e)
         fn = self._dispatch.get(k)
