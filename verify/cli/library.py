@@ -4,7 +4,6 @@ verify.library.architectures and verify.library.shape."""
 from __future__ import annotations
 
 import json
-from pathlib import Path
 
 import click
 

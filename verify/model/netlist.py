@@ -187,7 +187,6 @@ class Netlist:
             yield "the design has no output ports"
 
         input_bits = set(self.input_bits)
-        output_bits = set(self.output_bits)
         drivers: dict[str, Gate] = {}
         for g in self.gates:
             label = f"gate driving '{g.output}'" + (f" ({g.source})" if g.source else "")

@@ -27,7 +27,7 @@ from verify.files import report_mark
 from verify.manifest.records import EntryRecord
 from verify.model.result import SCOPE_NOTE
 from verify.render.batch import (command_text, counterexample_text, engines_text, headline,
-                                 params_text, problem_text)
+                                 problem_text)
 
 KIND = "html"
 

@@ -100,8 +100,6 @@ def dumps(design: Netlist, vectors: Sequence[Mapping[str, int]], *,
     ``expected`` (one {output port: int} per vector, from the spec) adds the ``spec`` scope.
     ``internal=False`` leaves out the internal nets.
     """
-    from verify import __version__
-
     count = len(vectors)
     if count == 0:
         raise ValueError("a waveform needs at least one vector")

@@ -95,7 +95,6 @@ class Hierarchy:
         self.inst_hp = inst.hierarchicalPath
         self.path = ""
         inputs: list[Port] = []
-        outputs: dict[str, list[str]] = {}
         out_ports: list[tuple[str, list[str]]] = []
         for port in inst.body.portList:
             if port.kind != SK.Port:

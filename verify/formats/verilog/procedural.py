@@ -301,7 +301,6 @@ class Procedural:
         return True
 
     def proc_assign(self, e) -> None:
-        f = self.frame
         lhs = e.left
         if lhs.kind == EK.ElementSelect and self.dynamic_write(e):
             return
