@@ -68,7 +68,7 @@ def diagnose_entry(entry, point: dict[str, int], root: str | Path, record: Entry
         return None
     from verify.check import resolve_spec
     from verify.diagnosis.explain import analyse_failure, cone_text, waveform_text
-    from verify.manifest.runner import load_entry
+    from verify.manifest.entries import load_entry
     from verify.model.result import Counterexample
 
     root = Path(root)

@@ -19,7 +19,7 @@ from typing import Callable
 
 from verify.errors import InputError
 from verify.manifest.records import EntryRecord
-from verify.manifest.runner import Entry, check_entry, error_record, load_entry, lost_record
+from verify.manifest.entries import Entry, check_entry, error_record, load_entry, lost_record
 
 #: what a worker answers when it cannot see the manifest's folder
 NEEDS_DESIGN = "needs the design"
