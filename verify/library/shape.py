@@ -1,6 +1,6 @@
 """Structure figures of a netlist: gate counts, logic depth, the longest path, fanout, prefix nodes.
 
-``stats(netlist)`` returns a dict (the JSON of ``adder-verify stats --json``):
+``stats(netlist)`` returns a dict (the JSON of ``adder-verify shape --json``):
 
 ``gates``            op -> number of gates
 ``gate_count``       all gates
