@@ -18,6 +18,7 @@ import json
 import math
 
 import pytest
+from pathlib import Path
 
 from verify.cli.main import main
 from verify.errors import InputError
@@ -460,3 +461,43 @@ def test_library_model_takes_one_delay_per_cell_from_its_tables():
     expected = 0.052 + 3 * t_carry + max(t_carry, 0.052)
     assert analyze(d, model)["exact_delay"] == pytest.approx(expected)
     assert an.model.unit == "ns"
+
+
+_INV_NAND = """module chain (input a, input b, output y);
+  wire n1, n2;
+  PX_INV   u0 (.A(a), .Y(n1));
+  PX_NAND2 u1 (.A(n1), .B(b), .Y(n2));
+  PX_INV   u2 (.A(n2), .Y(y));
+endmodule
+"""
+
+
+def test_liberty_delays_count_every_cell_once(tmp_path, capsys):
+    """--delays FILE.lib times each cell by its worst arc at the tables' first index point. The
+    expected figures are read from tests/data/plain_cells.lib itself (the outside reference):
+    PX_INV max(0.020, 0.015) = 0.020 ns, PX_NAND2 max(0.03, 0.02, 0.032, 0.022) = 0.032 ns. The
+    two inverters around the NAND must both count, although their logic would fold away."""
+    import json
+
+    from verify.cli.main import main
+    lib = Path(__file__).parent / "data" / "plain_cells.lib"
+    (tmp_path / "chain.v").write_text(_INV_NAND)
+    with pytest.raises(SystemExit) as e:
+        main(["timing", str(tmp_path / "chain.v"), "--cells", str(lib), "--delays", str(lib),
+              "--json"])
+    assert e.value.code == 0
+    rep = json.loads(capsys.readouterr().out)
+    path = 0.020 + 0.032 + 0.020  # a -> u0 -> u1 -> u2 -> y; no input can skip a cell here
+    assert rep["topological_delay"] == pytest.approx(path)
+    assert rep["exact_delay"] == pytest.approx(path)
+    with pytest.raises(SystemExit) as e:  # the function is still checked as before
+        main(["check", str(tmp_path / "chain.v"), "--cells", str(lib), "--spec", "y = ~a & b",
+              "--no-log"])
+    assert e.value.code == 0
+    (tmp_path / "fa.v").write_text(
+        "module fa (input a, b, c, output s, co);\n"
+        "  PX_FA u0 (.A(a), .B(b), .CI(c), .S(s), .CO(co));\nendmodule\n")
+    capsys.readouterr()
+    with pytest.raises(SystemExit) as e:  # a cell without timing tables is not timed as 0
+        main(["timing", str(tmp_path / "fa.v"), "--cells", str(lib), "--delays", str(lib)])
+    assert e.value.code == 2 and "PX_FA" in capsys.readouterr().err

@@ -59,7 +59,7 @@ from verify.check import ENGINE_NAMES as ENGINES  # noqa: E402 - the one list of
               "by time D (in the delay model's unit) for every input, floating mode; see "
               "'adder-verify timing'.")
 @click.option("--delays", metavar="MODEL", help="Delay model for --settle-within: 'unit' (the "
-              "default) or a TOML delay table.")
+              "default), a TOML delay table, or a Liberty file (.lib) for a netlist of its cells.")
 @click.option("--strength", type=click.IntRange(1, 100_000), metavar="N",
               help="After random vectors pass: inject N single faults into copies of the design "
               "and report what fraction the same vectors catch (an estimate, not a proof).")

@@ -34,7 +34,7 @@ def _widths(text: str) -> list[int]:
 @click.command("timing", epilog=EXIT_CODES)
 @click.argument("paths", nargs=-1, required=False, metavar="DESIGN...")
 @click.option("--delays", default="unit", show_default=True, metavar="MODEL",
-              help="'unit' (every gate 1, buf 0) or a TOML delay table "
+              help="'unit' (every gate 1, buf 0), a TOML delay table or a Liberty file (.lib, per-cell delays; with --cells) "
                    "(e.g. designs/delays/typical.toml).")
 @click.option("--spec", help="Also check the function against this spec, so the settled values "
                              "are known to be right.")

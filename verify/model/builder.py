@@ -37,9 +37,18 @@ class GateBuilder:
         self._count += 1
         return f"{self.prefix}{self._count}"
 
-    def gate(self, op: str, *inputs: str, out: str | None = None) -> str:
-        """Add a gate (or fold it away) and return the net holding its value."""
+    def gate(self, op: str, *inputs: str, out: str | None = None, keep: bool = False) -> str:
+        """Add a gate (or fold it away) and return the net holding its value.
+
+        ``keep``: add it as written, neither folded nor shared (a library cell's output buffer,
+        which must stay one gate so that the cell keeps its place in the netlist)."""
         inputs = tuple(inputs)
+        if keep:
+            net = out if out is not None else self.fresh()
+            g = Gate(op, inputs, net, self.source)
+            self.gates.append(g)
+            self._ops[net] = g
+            return net
         if self.fold and out is None:
             folded = self._fold(op, inputs)
             if folded is not None:

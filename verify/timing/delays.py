@@ -223,12 +223,61 @@ def load_toml(path: str | Path) -> TableModel:
 TIME_UNITS = ("s", "ms", "us", "ns", "ps", "fs")
 
 
+def liberty_model(path: str | Path) -> PerGateModel:
+    """Per-cell delays from a Liberty file, for netlists read with that file (``--cells``).
+
+    The reader keeps one buffer at each output pin of each cell instance (source
+    ``<lib file>:<cell line>:<col> <instance>``); the cell's delay (``cell_delays``: the worst arc
+    at the tables' first index point) is placed on that buffer, and every other gate (the logic
+    of a cell's function, glue logic outside cells) takes 0. So a path costs the delays of the
+    cells it passes through, each once. A cell used without timing tables is refused rather than
+    timed as 0. The unit is the library's ``time_unit`` (default ns).
+    """
+    from verify.formats.liberty import read_liberty
+
+    lib = read_liberty(path)
+    delays = cell_delays(lib)
+    by_line = {cell.line: name for name, cell in lib.cells.items()}
+    unit = _liberty_unit(Path(path))
+    prefix = f"{lib.path}:"
+
+    def lookup(gate):
+        src = gate.source or ""
+        if gate.op != "buf" or not src.startswith(prefix):
+            return 0.0
+        head = src[len(prefix):].split(" ", 1)[0].split(":")[0]
+        cell = by_line.get(int(head)) if head.isdigit() else None
+        if cell is None:
+            return 0.0
+        if cell not in delays:
+            raise InputError(f"cell '{cell}' has no cell_rise/cell_fall tables: no delay to use "
+                             f"for it (give a TOML table or 'unit' instead)", f"{lib.path}:{head}")
+        return delays[cell]
+    return PerGateModel(str(lib.name), unit, lookup, _ZeroModel())
+
+
+def _liberty_unit(path: Path) -> str:
+    import re
+    try:
+        text = path.read_text(errors="replace")
+    except OSError:
+        return "ns"
+    m = re.search(r'time_unit\s*:\s*"?\s*1\s*(fs|ps|ns|us|ms|s)\b', text)
+    return m.group(1) if m else "ns"
+
+
 def resolve(spec: str | DelayModel | None) -> DelayModel:
-    """``None`` or ``"unit"`` -> the unit model; a path -> its TOML table; a model -> itself."""
+    """``None`` or ``"unit"`` -> the unit model; a ``.lib`` path -> per-cell Liberty delays; another
+    path -> its TOML table; a model -> itself."""
     if spec is None or (isinstance(spec, str) and spec.strip().lower() == "unit"):
         return UnitModel()
     if isinstance(spec, DelayModel):
         return spec
     if not isinstance(spec, (str, Path)):
-        raise InputError(f"--delays takes 'unit' or a TOML file, not {type(spec).__name__}")
+        raise InputError(f"--delays takes 'unit', a TOML file or a Liberty file, not "
+                         f"{type(spec).__name__}")
+    if str(spec).endswith(".lib"):
+        if not Path(spec).is_file():
+            raise InputError("no such Liberty file", str(spec))
+        return liberty_model(spec)
     return load_toml(spec)

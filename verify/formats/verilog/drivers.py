@@ -35,7 +35,7 @@ class _Builder(GateBuilder):
         super().__init__(*args, **kwargs)
         self.tainted: set[str] = set()
 
-    def gate(self, op: str, *inputs: str, out: str | None = None) -> str:
+    def gate(self, op: str, *inputs: str, out: str | None = None, keep: bool = False) -> str:
         if len(self.gates) >= MAX_GATES:
             raise InputError(f"the design translates into more than {MAX_GATES:,} gates; refused "
                              f"as too large", self.source)
@@ -48,7 +48,7 @@ class _Builder(GateBuilder):
             tainted.add(net)
             return net
         before = len(self.gates)
-        net = super().gate(op, *inputs, out=out)
+        net = super().gate(op, *inputs, out=out, keep=keep)
         if hit and len(self.gates) > before and self.gates[-1].output == net:
             tainted.add(net)
         return net

@@ -3,6 +3,8 @@ assignments, and references to (parts of) signals on either side of an assignmen
 
 from __future__ import annotations
 
+import re
+
 from pyslang import ast
 
 from verify.model.netlist import CONST0, CONST1
@@ -195,6 +197,10 @@ class Hierarchy:
             child_rel = child_rel[len(parent_hp) + 1:]
         child_path = parent_path + child_rel + "."
         body = inst.body
+        is_cell = getattr(self.loc, "is_library_cell", None)
+        cell_where = self.where(inst.definition) if is_cell and is_cell(inst.definition) else None
+        if cell_where:  # "lib:line", as the gates of the cell's function name it
+            cell_where = re.sub(r":\d+$", "", cell_where) if cell_where.count(":") > 1 else cell_where
         # the child's port nets first, so that the connections can drive them
         connections = []
         for pc in inst.portConnections:
@@ -244,6 +250,10 @@ class Hierarchy:
                     value = self.ev(expr.right)
                 finally:
                     self._empty = None
+                if cell_where is not None:  # one gate per cell output: timing counts each cell
+                    source, self.b.source = self.b.source, f"{cell_where} {child_rel}"
+                    value = [self.b.gate("buf", v, keep=True) for v in value]
+                    self.b.source = source
                 self.assign_lvalue(expr.left, value, w)
         self.path, self.inst_hp = child_path, inst.hierarchicalPath
         try:

@@ -150,6 +150,14 @@ class Locator:
         self.names = {str(p.resolve()): str(p) for p in paths}
         # text made from a Liberty file (its `line directives give the lines): that file's name
         self._cache: dict[int, str] = dict(generated or {})
+        self.generated = set(generated or {})
+
+    def is_library_cell(self, definition) -> bool:
+        """Whether a module definition was made from a Liberty cell (``--cells``)."""
+        try:
+            return _buffer_id(definition.location.buffer) in self.generated
+        except Exception:  # pragma: no cover - a definition without a location
+            return False
 
     def file(self, loc) -> str:
         buf = loc.buffer
