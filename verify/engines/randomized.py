@@ -19,6 +19,8 @@ One-bit inputs (carry-in, mode bits) alternate 0 and 1 through the stream.
 
 from __future__ import annotations
 
+import functools
+
 import time
 from dataclasses import replace
 
@@ -275,9 +277,16 @@ def _random_bits(rng, width: int, count: int) -> np.ndarray:
 
 def _pair_to_run(pair: np.ndarray, w: int) -> tuple[np.ndarray, np.ndarray]:
     """Number every (start, length) run of a w-bit word; map numbers back to runs."""
+    starts, lengths = _runs_of(w)
+    return starts[pair], lengths[pair]
+
+
+@functools.lru_cache(maxsize=16)
+def _runs_of(w: int) -> tuple[np.ndarray, np.ndarray]:
+    """(start, length) of every run of a w-bit word, numbered: built once per width."""
     starts = np.repeat(np.arange(w), np.arange(w, 0, -1))
     lengths = np.concatenate([np.arange(1, w - s + 1) for s in range(w)])
-    return starts[pair], lengths[pair]
+    return starts, lengths
 
 
 def _special_values(w: int) -> np.ndarray:
