@@ -134,14 +134,21 @@ def shift(b: GateBuilder, x: Sequence[str], amount: Sequence[str], *, left: bool
 def multiply(b: GateBuilder, x: Sequence[str], y: Sequence[str]) -> Word:
     """x * y modulo 2**n with n = len(x) (shift-and-add; y may be of any width, bits of y at or
     above n do not affect the result). The low n bits of a product are the same for signed and
-    unsigned operands, so sign does not matter here."""
-    w = len(x)
-    acc = [CONST0] * w
-    for i, yb in enumerate(y):
-        if i >= w:
+    unsigned operands, so sign does not matter here. Known-zero low bits of x and constant-zero
+    bits of y are skipped, so a product of shifted words costs what its live bits cost."""
+    n = len(x)
+    xs = list(x)
+    tz = 0  # known-zero low bits of x: the product has them too
+    while tz < n and xs[tz] == CONST0:
+        tz += 1
+    acc = [CONST0] * n
+    for i, yi in enumerate(y):
+        if i + tz >= n:
             break
-        if yb == CONST0:
+        if yi == CONST0:
             continue
-        row = [CONST0] * i + [b.and_(v, yb) for v in x[:w - i]]
-        acc = add(b, acc, row)[0]
+        lo = i + tz
+        partial = [b.and_(yi, xj) for xj in xs[tz:n - i]]
+        top, _ = add(b, acc[lo:], partial)
+        acc[lo:] = top
     return acc

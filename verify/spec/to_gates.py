@@ -11,6 +11,7 @@ import types
 from typing import Callable, Mapping, NamedTuple, Sequence
 
 from verify.errors import SpecError
+from verify.model import words
 from verify.model.builder import GateBuilder
 from verify.model.netlist import CONST0, CONST1
 from verify.spec.resolve import signed_width
@@ -27,76 +28,41 @@ _CONSTS = (CONST0, CONST1)
 
 def add(b: GateBuilder, x: Word, y: Word, cin: str = CONST0) -> tuple[Word, str]:
     """x + y + cin over equal-width words: (the low len(x) bits, the carry out)."""
-    return b.add(list(x), list(y), cin)
+    return words.add(b, x, y, cin)
 
 
 def subtract(b: GateBuilder, x: Word, y: Word) -> tuple[Word, str]:
     """x - y over equal-width words, as x + ~y + 1: (the low len(x) bits, the carry out, which
     is 1 exactly when unsigned x >= y)."""
-    return b.add(list(x), [b.not_(v) for v in y], CONST1)
+    return words.subtract(b, x, y)
 
 
 def less_than(b: GateBuilder, x: Word, y: Word, signed: bool) -> str:
     """1 when x < y, both words of equal width, read as two's complement when ``signed``
-    (else unsigned): the sign of the difference one bit wider."""
-    ext_x = x[-1] if signed else CONST0
-    ext_y = y[-1] if signed else CONST0
-    diff, _ = subtract(b, [*x, ext_x], [*y, ext_y])
-    return diff[-1]
+    (else unsigned)."""
+    return words.compare(b, "<", x, y, signed)
 
 
 def equal(b: GateBuilder, x: Word, y: Word) -> str:
     """1 when the equal-width words x and y are the same."""
-    return b.not_(b.or_(*(b.xor_(p, q) for p, q in zip(x, y))))
+    return words.equal(b, x, y)
 
 
 def shift_left(b: GateBuilder, x: Word, s: Word, n: int) -> Word:
     """The low n bits of x << s (x extended with zeros above), s unsigned; a barrel shifter."""
-    w = list(x[:n]) + [CONST0] * (n - len(x))
-    for j, sj in enumerate(s):
-        k = 1 << j
-        if k >= n:
-            w = [b.and_(b.not_(sj), v) for v in w]
-        else:
-            w = [b.mux(sj, w[i], w[i - k] if i >= k else CONST0) for i in range(n)]
-    return w
+    return words.shift(b, list(x[:n]) + [CONST0] * (n - len(x)), s, left=True)
 
 
 def shift_right(b: GateBuilder, x: Word, s: Word, fill: str = CONST0) -> Word:
     """x >> s at len(x) bits, s unsigned; vacated bits take ``fill`` (CONST0 for a logical
     shift, the sign bit for an arithmetic one)."""
-    m = len(x)
-    w = list(x)
-    far: list[str] = []
-    for j, sj in enumerate(s):
-        k = 1 << j
-        if k >= m:
-            far.append(sj)
-        else:
-            w = [b.mux(sj, w[i], w[i + k] if i + k < m else fill) for i in range(m)]
-    if far:
-        big = b.or_(*far)
-        w = [b.mux(big, v, fill) for v in w]
-    return w
+    return words.shift(b, x, s, left=False, fill=fill)
 
 
 def multiply(b: GateBuilder, x: Word, y: Word, n: int) -> Word:
-    """The low n bits of x * y (both words at least n bits or zero-extended; the low n bits of
-    a product are the same read signed or unsigned). Shift-and-add, skipping constant zeros."""
-    xs = list(x[:n]) + [CONST0] * (n - len(x))
-    ys = list(y[:n]) + [CONST0] * (n - len(y))
-    tz = 0  # known-zero low bits of x: the product has them too
-    while tz < n and xs[tz] == CONST0:
-        tz += 1
-    acc = [CONST0] * n
-    for i, yi in enumerate(ys):
-        if yi == CONST0 or i + tz >= n:
-            continue
-        lo = i + tz
-        partial = [b.and_(yi, xj) for xj in xs[tz:n - i]]
-        top, _ = add(b, acc[lo:], partial)
-        acc[lo:] = top
-    return acc
+    """The low n bits of x * y (the low n bits of a product are the same read signed or
+    unsigned)."""
+    return words.multiply(b, list(x[:n]) + [CONST0] * (n - len(x)), y)
 
 
 # ==== values ================================================================================
