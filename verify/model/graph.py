@@ -1,4 +1,4 @@
-"""The one home of graph walks over a netlist: order, loops, cones, depth, support.
+"""The one home of graph walks over a netlist: order, loops, cones, arrival times.
 
 Every walk here is iterative, so a 65,536-bit ripple chain needs no deep Python stack. The
 netlist model (``Netlist.ordered_gates``) and every engine, analysis and renderer that needs an
@@ -93,20 +93,6 @@ def readers(netlist) -> dict[str, list]:
     return out
 
 
-def fanout_cone(netlist, net: str) -> list:
-    """Gates downstream of ``net``, in topological order."""
-    users = readers(netlist)
-    seen: set[str] = set()
-    stack = [net]
-    while stack:
-        n = stack.pop()
-        for g in users.get(n, ()):
-            if g.output not in seen:
-                seen.add(g.output)
-                stack.append(g.output)
-    return [g for g in netlist.ordered_gates if g.output in seen]
-
-
 def arrival(netlist, delay: Callable[[object], float],
             start: Mapping[str, float] | None = None) -> tuple[dict[str, float], dict[str, str | None]]:
     """Longest-path arrival time of every net, and the input each took it through.
@@ -135,15 +121,3 @@ def path_to(came_from: Mapping[str, str | None], net: str) -> list[str]:
     while came_from.get(path[-1]) is not None:
         path.append(came_from[path[-1]])
     return list(reversed(path))
-
-
-def support(netlist) -> dict[str, frozenset[str]]:
-    """net -> the input bits it depends on structurally (its structural support)."""
-    sup: dict[str, frozenset[str]] = {n: frozenset() for n in CONSTANT_NETS}
-    sup.update({b: frozenset((b,)) for b in netlist.input_bits})
-    for g in netlist.ordered_gates:
-        s: frozenset[str] = frozenset()
-        for i in g.inputs:
-            s = s | sup[i]
-        sup[g.output] = s
-    return sup

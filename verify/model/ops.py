@@ -60,10 +60,13 @@ class Op:
     #: the value that, on any one input, fixes the output whatever the others are (and: 0,
     #: or: 1); None where no single input decides (xor, mux, maj, not, buf)
     controlling: int | None = None
-    #: the output when an input is at its controlling value (and: 0, nand: 1)
-    controlled: int | None = None
-    #: floating-mode rule (see the module doc): k -> minimal settling input sets
+    #: floating-mode rule (see the module doc): k -> minimal settling input sets; derived from
+    #: ``controlling`` when that is given
     settle: Callable[[int], list[tuple[tuple[int, int | None], ...]]] | None = None
+
+    def __post_init__(self) -> None:
+        if self.settle is None and self.controlling is not None:
+            object.__setattr__(self, "settle", _settle_controlled(self.controlling))
 
     def arity_ok(self, n: int) -> bool:
         return n >= self.min_inputs and (self.max_inputs is None or n <= self.max_inputs)
@@ -176,19 +179,15 @@ def _same(o: int, a: Sequence[int], fresh=None) -> list[list[int]]:
 
 OPS: dict[str, Op] = {op.name: op for op in (
     Op("and", 2, None, lambda a: _join("&", a), lambda a: _z3().And(*a),
-       lambda a: _join("&", a), _and_cnf, controlling=0, controlled=0,
-       settle=_settle_controlled(0)),
+       lambda a: _join("&", a), _and_cnf, controlling=0),
     Op("or", 2, None, lambda a: _join("|", a), lambda a: _z3().Or(*a),
-       lambda a: _join("|", a), _or_cnf, controlling=1, controlled=1,
-       settle=_settle_controlled(1)),
+       lambda a: _join("|", a), _or_cnf, controlling=1),
     Op("xor", 2, None, lambda a: _join("^", a), _z3_xor, lambda a: _join("^", a), _xor_clauses,
        settle=_settle_all),
     Op("nand", 2, None, lambda a: f"({_join('&', a)}) ^ M", lambda a: _z3().Not(_z3().And(*a)),
-       lambda a: f"~({_join('&', a)})", _negated(_and_cnf), controlling=0, controlled=1,
-       settle=_settle_controlled(0)),
+       lambda a: f"~({_join('&', a)})", _negated(_and_cnf), controlling=0),
     Op("nor", 2, None, lambda a: f"({_join('|', a)}) ^ M", lambda a: _z3().Not(_z3().Or(*a)),
-       lambda a: f"~({_join('|', a)})", _negated(_or_cnf), controlling=1, controlled=0,
-       settle=_settle_controlled(1)),
+       lambda a: f"~({_join('|', a)})", _negated(_or_cnf), controlling=1),
     Op("xnor", 2, None, lambda a: f"({_join('^', a)}) ^ M", lambda a: _z3().Not(_z3_xor(a)),
        lambda a: f"~({_join('^', a)})", _negated(_xor_clauses),
        settle=_settle_all),
