@@ -10,8 +10,8 @@ import click
 
 from verify.engines import DEFAULT_EXHAUSTIVE_BITS, DEFAULT_TIMEOUT
 from verify.errors import InputError
-from verify.cli.options import (check_report_paths, parse_defines, parse_params, parse_shard,
-                                single_point, verilog_options, with_exit_codes)
+from verify.cli.options import (check_report_paths, error_json, parse_defines, parse_params,
+                                parse_shard, single_point, verilog_options, with_exit_codes)
 
 from verify.check import ENGINE_NAMES as ENGINES  # noqa: E402 - the one list of engine names
 
@@ -97,7 +97,7 @@ def check_cmd(paths, spec, engine, cross_check, seed, vectors, timeout, require,
                 cross_check=cross_check, executor=executor)
     except InputError as e:
         if as_json:
-            click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
+            click.echo(json.dumps(error_json(e)))
         raise
     finally:
         if bar is not None:
@@ -171,8 +171,7 @@ def _print_json(runs) -> None:
     items = []
     for run in runs:
         if run.result is None:
-            items.append({"ok": False, "verdict": "error", "error": run.error.for_command_line(),
-                          "files": run.label, "params": run.params})
+            items.append({**error_json(run.error), "files": run.label, "params": run.params})
         else:
             items.append(reports.render_json(run.result, params=run.params or None))
     click.echo(reports.dumps(items if len(runs) > 1 else items[0]))

@@ -11,7 +11,8 @@ import json
 
 import click
 
-from verify.cli.options import check_report_paths, parse_defines, single_point, verilog_options
+from verify.cli.options import (check_report_paths, error_json, parse_defines, single_point,
+                                verilog_options)
 from verify.errors import InputError
 
 
@@ -47,7 +48,7 @@ def explain_cmd(paths, spec, input_text, vcd_path, dot_path, vectors, seed, top,
                         params, include_dirs, defines, cells, as_json)
     except InputError as e:
         if as_json:
-            click.echo(json.dumps({"ok": False, "verdict": "error", "error": e.for_command_line()}))
+            click.echo(json.dumps(error_json(e)))
         raise
 
 

@@ -18,6 +18,11 @@ EXIT_CODES = ("Exit codes: 0 meets the spec (proven, exhaustive, or tested when 
               "(or only tested where complete was required); 4 internal error of this tool.")
 
 
+def error_json(e: InputError, **extra) -> dict:
+    """The JSON a command prints with --json when its input was bad (what stderr says too)."""
+    return {"ok": False, "verdict": "error", **extra, "error": e.for_command_line()}
+
+
 def with_exit_codes(text: str) -> str:
     """A command's help text followed by the exit codes (its own paragraph in --help)."""
     return f"{text.rstrip()}\n\n\b\n{EXIT_CODES}"

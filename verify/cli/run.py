@@ -10,6 +10,7 @@ from pathlib import Path
 
 import click
 
+from verify.cli.options import error_json
 from verify.errors import InputError
 
 
@@ -216,8 +217,7 @@ def merge_cmd(files, as_json):
         merged = shards.merge(files)
     except InputError as e:
         if as_json:
-            click.echo(json.dumps({"ok": False, "verdict": "error", "exit_code": 2,
-                                   "error": e.for_command_line()}))
+            click.echo(json.dumps(error_json(e, exit_code=2)))
         raise
     if as_json:
         click.echo(json.dumps(merged, indent=2))
