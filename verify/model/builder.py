@@ -43,24 +43,19 @@ class GateBuilder:
         ``keep``: add it as written, neither folded nor shared (a library cell's output buffer,
         which must stay one gate so that the cell keeps its place in the netlist)."""
         inputs = tuple(inputs)
-        if keep:
-            net = out if out is not None else self.fresh()
-            g = Gate(op, inputs, net, self.source)
-            self.gates.append(g)
-            self._ops[net] = g
-            return net
-        if self.fold and out is None:
+        if self.fold and out is None and not keep:
             folded = self._fold(op, inputs)
             if folded is not None:
                 return folded
         key = (op, tuple(sorted(inputs)) if op in _SYMMETRIC else inputs)
-        if self.share and out is None and key in self._seen:
+        shared = self.share and not keep
+        if shared and out is None and key in self._seen:
             return self._seen[key]
         net = out if out is not None else self.fresh()
         g = Gate(op, inputs, net, self.source)
         self.gates.append(g)
         self._ops[net] = g
-        if self.share:
+        if shared:
             self._seen.setdefault(key, net)
         return net
 
